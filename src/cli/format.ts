@@ -1,0 +1,62 @@
+/** Printing helpers for the CLI: the JSON answer shape of DESIGN §9 and readable tables. */
+import type { Answer, FourAnswers } from '../optics/index.ts';
+import { isFailure } from '../optics/index.ts';
+
+export const CAUTION =
+  'Decentra is a computation aid. Verify prism on the finished spectacles with a focimeter, and defer to ' +
+  'local regulations and licensed professional judgement.';
+
+/** The DESIGN §9 shape of one answer: the described prism, or the failure. */
+export function answerJson(a: Answer): object {
+  if (isFailure(a)) return { failure: a.failure, message: a.message };
+  return {
+    x: a.x, y: a.y, magnitude: a.magnitude, baseAngle: a.baseAngle,
+    horizontal: { amount: a.horizontal.amount, base: a.horizontal.base },
+    vertical: { amount: a.vertical.amount, base: a.vertical.base },
+  };
+}
+
+export function fourAnswersJson(r: FourAnswers, input: object): object {
+  return {
+    eye: r.eye,
+    input,
+    prentice: answerJson(r.prentice),
+    paraxial: answerJson(r.paraxial),
+    exact: answerJson(r.exact),
+    focimeter: answerJson(r.focimeter),
+    error: r.error,
+  };
+}
+
+export function signed(v: number, decimals = 2): string {
+  const s = Math.abs(v).toFixed(decimals);
+  return Number(s) === 0 ? s : `${v < 0 ? '-' : '+'}${s}`;
+}
+
+function component(amount: number, base: string | null, decimals: number): string {
+  return base === null ? '0' : `${amount.toFixed(decimals)} Δ ${base}`;
+}
+
+/** One row of the readable answer table. */
+export function answerCells(a: Answer, decimals = 3): string[] {
+  if (isFailure(a)) return [`no answer: ${a.message}`, '', ''];
+  return [
+    component(a.horizontal.amount, a.horizontal.base === null ? null : `base ${a.horizontal.base}`, decimals),
+    component(a.vertical.amount, a.vertical.base === null ? null : `base ${a.vertical.base}`, decimals),
+    `${a.magnitude.toFixed(decimals)} Δ at ${a.baseAngle.toFixed(1)}°`,
+  ];
+}
+
+/** Left-aligned text table. */
+export function table(rows: string[][]): string {
+  const widths: number[] = [];
+  for (const r of rows) r.forEach((c, i) => (widths[i] = Math.max(widths[i] ?? 0, [...c].length)));
+  return rows.map((r) => r.map((c, i) => c + ' '.repeat(widths[i]! - [...c].length)).join('  ').trimEnd()).join('\n');
+}
+
+/** A CSV cell: numbers as they are (finite only), text quoted when needed. */
+export function csvCell(v: number | string | null): string {
+  if (v === null) return '';
+  if (typeof v === 'number') return Number.isFinite(v) ? String(v) : '';
+  return /[",\n]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v;
+}

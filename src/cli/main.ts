@@ -1,0 +1,51 @@
+/**
+ * The `decentra` command line. Thin: flags -> case -> optics -> print. A bad flag exits 2
+ * with one line on stderr that names the flag and the reason.
+ */
+import { InputError } from '../case/input.ts';
+import { MATERIALS } from '../optics/index.ts';
+import { SWEEP_HELP, runSweep } from './sweep.ts';
+import { TRACE_HELP, runTrace } from './trace.ts';
+
+const MAIN_HELP = `decentra: exact prism along the line of sight through a thick spectacle lens.
+
+Usage: decentra <command> [flags]
+
+Commands
+  trace       the four answers (Prentice, first-order, exact, focimeter) at one visual point
+  sweep       a table over powers and decentrations for a lens family (CSV or JSON)
+  materials   the lens materials known by name
+  help        this text; "decentra <command> --help" explains a command
+
+Run "decentra trace --help" for the lens flags.
+`;
+
+function materials(): string {
+  return MATERIALS.map((m) => `${m.id.padEnd(14)} n_d ${m.nd.toFixed(3)}  V_d ${String(m.abbe).padEnd(4)}  ${m.name}; ${m.source}`).join('\n');
+}
+
+export function run(argv: readonly string[]): { out: string; code: number; err?: string } {
+  const [cmd, ...rest] = argv;
+  try {
+    switch (cmd) {
+      case 'trace':
+        return { out: runTrace(rest), code: 0 };
+      case 'sweep':
+        return { out: runSweep(rest), code: 0 };
+      case 'materials':
+        return { out: materials(), code: 0 };
+      case undefined:
+      case 'help':
+      case '--help':
+      case '-h':
+        return { out: MAIN_HELP, code: 0 };
+      default:
+        return { out: '', code: 2, err: `decentra: unknown command '${cmd}' (try: decentra --help)` };
+    }
+  } catch (e) {
+    if (e instanceof InputError) return { out: '', code: 2, err: `decentra ${cmd}: ${e.message}` };
+    throw e;
+  }
+}
+
+export { TRACE_HELP, SWEEP_HELP };

@@ -1,0 +1,80 @@
+/**
+ * The four answers for one visual point (shared/DESIGN.md §7), as described prisms:
+ * Prentice, first-order thick lens at the eye, exact line of sight, focimeter (exact, with
+ * its first-order value beside it), and the Prentice error.
+ *
+ * This is the convenience layer the CLI and the UI call; loops (maps, sweeps) use trace.ts
+ * and firstOrder.ts directly with reused scratch objects.
+ */
+import { FAILURE_NAMES, type FailureName, RayStatus, failureMessage } from './errors.ts';
+import { eyeMatrix, focimeterMatrix, prismFromMatrix } from './firstOrder.ts';
+import type { Lens } from './lens.ts';
+import { type Eye, type PrismDescription, describePrism } from './notation.ts';
+import { LineTrace, traceFocimeter, traceLineOfSight } from './trace.ts';
+
+export interface TraceFailure {
+  failure: FailureName;
+  message: string;
+}
+
+export type Answer = PrismDescription | TraceFailure;
+
+export interface PrenticeError {
+  /** |Prentice| - |exact|, Δ */
+  prism: number;
+  /** 100 (|Prentice| - |exact|) / |exact|, % (null where |exact| is 0) */
+  percent: number | null;
+}
+
+export interface FourAnswers {
+  eye: Eye;
+  prentice: PrismDescription;
+  paraxial: PrismDescription;
+  exact: Answer;
+  focimeter: Answer;
+  focimeterFirstOrder: PrismDescription;
+  error: PrenticeError | null;
+  /** the traces themselves (lens frame), for drawing */
+  exactTrace: LineTrace;
+  focimeterTrace: LineTrace;
+}
+
+export function isFailure(a: Answer): a is TraceFailure {
+  return (a as TraceFailure).failure !== undefined;
+}
+
+export function failureOf(status: RayStatus): TraceFailure {
+  return { failure: FAILURE_NAMES[status] as FailureName, message: failureMessage(status) };
+}
+
+/**
+ * The four answers at visual point (cxMm, cyMm) relative to the optical centre, for an
+ * untilted lens with the centre of rotation crDistanceMm behind the back vertex on its axis.
+ */
+export function fourAnswers(lens: Lens, crDistanceMm: number, cxMm: number, cyMm: number, eye: Eye): FourAnswers {
+  const v = { x: 0, y: 0 };
+  prismFromMatrix(lens.vertexMatrix, cxMm, cyMm, v);
+  const prentice = describePrism(v.x, v.y, eye);
+  prismFromMatrix(eyeMatrix(lens, crDistanceMm), cxMm, cyMm, v);
+  const paraxial = describePrism(v.x, v.y, eye);
+  prismFromMatrix(focimeterMatrix(lens), cxMm, cyMm, v);
+  const focimeterFirstOrder = describePrism(v.x, v.y, eye);
+
+  const exactTrace = new LineTrace();
+  const s1 = traceLineOfSight(lens, 0, 0, -crDistanceMm, cxMm, cyMm, exactTrace);
+  const exact: Answer = s1 === RayStatus.ok ? describePrism(exactTrace.px, exactTrace.py, eye) : failureOf(s1);
+  const focimeterTrace = new LineTrace();
+  const s2 = traceFocimeter(lens, cxMm, cyMm, focimeterTrace);
+  const focimeter: Answer = s2 === RayStatus.ok ? describePrism(focimeterTrace.px, focimeterTrace.py, eye) : failureOf(s2);
+
+  return {
+    eye, prentice, paraxial, exact, focimeter, focimeterFirstOrder,
+    error: isFailure(exact) ? null : prenticeError(prentice.magnitude, exact.magnitude),
+    exactTrace, focimeterTrace,
+  };
+}
+
+export function prenticeError(prenticeMag: number, exactMag: number): PrenticeError {
+  const prism = prenticeMag - exactMag;
+  return { prism, percent: exactMag === 0 ? null : (100 * prism) / exactMag };
+}

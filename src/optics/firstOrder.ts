@@ -1,0 +1,45 @@
+/**
+ * Prentice's rule and the first-order (paraxial) thick-lens prism (shared/DESIGN.md §6-7).
+ *
+ * Both have the form p = -M c with M a 2x2 matrix in dioptres, c the decentration of the
+ * visual point from the optical centre and p in prism dioptres towards the base:
+ *   Prentice (Prentice, Arch Ophthalmol 1890; vector form with the power matrix of Long 1976):
+ *     M = Fv, the back vertex power matrix; p = -Fv c with c in cm.
+ *   First order, for a ray through a point at distance s behind the back vertex (a paraxial
+ *   (y, nu) trace from that point through both surfaces, derived in docs/method.md):
+ *     M = F2 + F1 (I - (t/n)(F2 - K)),  K = I/s.
+ *   With s = the back surface's radius (K = its curvature matrix, F2 / (1 - n)) the ray
+ *   meets the back surface at normal incidence, which is the focimeter's first-order value
+ *     M = F1 + F2 - (t/(n - 1)) F1 F2.
+ * c in mm here, so p = -M c / 10.
+ */
+import type { Lens } from './lens.ts';
+import { type Mat2, IDENTITY, add, mul, scale, scalarMatrix } from './powerMatrix.ts';
+
+/** p = -M c, c in mm, p in Δ. */
+export function prismFromMatrix(m: Mat2, cxMm: number, cyMm: number, out: { x: number; y: number }): void {
+  out.x = -(m[0] * cxMm + m[1] * cyMm) / 10;
+  out.y = -(m[2] * cxMm + m[3] * cyMm) / 10;
+}
+
+/** Matrix of the first-order prism for a ray through the point whose vergence matrix is K (D). */
+export function firstOrderMatrix(lens: Lens, k: Mat2): Mat2 {
+  const tn = lens.ctMm / 1000 / lens.index; // reduced thickness, m
+  const inner = add(IDENTITY, scale(add(lens.backMatrix, scale(k, -1)), -tn));
+  return add(lens.backMatrix, mul(lens.frontMatrix, inner));
+}
+
+/** First-order prism matrix at the eye, for a centre of rotation s mm behind the back vertex. */
+export function eyeMatrix(lens: Lens, crDistanceMm: number): Mat2 {
+  return firstOrderMatrix(lens, scalarMatrix(1000 / crDistanceMm));
+}
+
+/** First-order focimeter matrix: F1 + F2 - (t/(n-1)) F1 F2, via K = back curvature matrix. */
+export function focimeterMatrix(lens: Lens): Mat2 {
+  return firstOrderMatrix(lens, scale(lens.backMatrix, 1 / (1 - lens.index)));
+}
+
+/** Prentice's matrix: the back vertex power matrix. */
+export function prenticeMatrix(lens: Lens): Mat2 {
+  return lens.vertexMatrix;
+}

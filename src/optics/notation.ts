@@ -1,0 +1,61 @@
+/**
+ * Prism notation (shared/DESIGN.md §6): components in the wearer frame (x towards the
+ * wearer's left, y up), base labels per eye, and 360° base notation (ISO 8429: the angle of
+ * the base direction counter-clockwise from the observer's right, seen facing the wearer).
+ */
+
+export type Eye = 'R' | 'L';
+
+export interface PrismComponent<B extends string> {
+  /** absolute amount, Δ */
+  amount: number;
+  base: B | null;
+}
+
+export interface PrismDescription {
+  /** signed components, Δ */
+  x: number;
+  y: number;
+  magnitude: number;
+  /** base direction, degrees in [0, 360) */
+  baseAngle: number;
+  horizontal: PrismComponent<'in' | 'out'>;
+  vertical: PrismComponent<'up' | 'down'>;
+}
+
+/** Components smaller than this are rounding noise and reported as exactly zero, Δ. */
+export const ZERO_PRISM = 1e-10;
+
+export function describePrism(px: number, py: number, eye: Eye): PrismDescription {
+  const x = Math.abs(px) < ZERO_PRISM ? 0 : px;
+  const y = Math.abs(py) < ZERO_PRISM ? 0 : py;
+  const magnitude = Math.sqrt(x * x + y * y);
+  let baseAngle = magnitude === 0 ? 0 : (Math.atan2(y, x) * 180) / Math.PI;
+  if (baseAngle < 0) baseAngle += 360;
+  if (baseAngle >= 360) baseAngle -= 360;
+  // right eye: +x is nasal (base in); left eye: -x is nasal
+  const nasal = eye === 'R' ? x > 0 : x < 0;
+  return {
+    x: x + 0, // no negative zero
+    y: y + 0,
+    magnitude,
+    baseAngle,
+    horizontal: { amount: Math.abs(x), base: x === 0 ? null : nasal ? 'in' : 'out' },
+    vertical: { amount: Math.abs(y), base: y === 0 ? null : y > 0 ? 'up' : 'down' },
+  };
+}
+
+/** Signed x component of a horizontal prism given as amount and base, for one eye. */
+export function horizontalComponent(amount: number, base: 'in' | 'out', eye: Eye): number {
+  const sign = (base === 'in') === (eye === 'R') ? 1 : -1;
+  return sign * amount;
+}
+
+/** Words for a prism: "1.25 Δ base in, 0.50 Δ base up (right eye)". */
+export function prismInWords(p: PrismDescription, eye: Eye, decimals = 2): string {
+  const parts: string[] = [];
+  if (p.horizontal.base) parts.push(`${p.horizontal.amount.toFixed(decimals)} Δ base ${p.horizontal.base}`);
+  if (p.vertical.base) parts.push(`${p.vertical.amount.toFixed(decimals)} Δ base ${p.vertical.base}`);
+  const what = parts.length ? parts.join(', ') : `no prism (below ${(0.5 * 10 ** -decimals).toFixed(decimals + 1)} Δ)`;
+  return `${what} (${eye === 'R' ? 'right' : 'left'} eye)`;
+}

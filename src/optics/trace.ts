@@ -1,0 +1,177 @@
+/**
+ * Exact real-ray traces along the line of sight and at a focimeter (shared/DESIGN.md §7).
+ *
+ * All positions and directions are in the LENS frame (lens.ts): origin at the back vertex,
+ * z towards the object. The traces run in reverse, from the eye side out to object space;
+ * light travels the other way, so the eye-side light direction is d_eye = -a and the
+ * object-side one d_obj = -b for the reverse directions a (eye side) and b (object side).
+ *
+ * Prism of a deviation (DESIGN §7.3): magnitude 100 tan δ with δ the angle between d_obj and
+ * d_eye; base direction the projection of d_eye - d_obj = b - a on the x-y plane.
+ *
+ * Per-ray path: no allocation. Results go into a caller-owned LineTrace.
+ */
+import { RayStatus } from './errors.ts';
+import type { Lens } from './lens.ts';
+import { refract } from './refract.ts';
+import { Hit, Ray, SagEval } from './surface.ts';
+
+/** Result of one trace; reuse one instance per loop. */
+export class LineTrace {
+  status: RayStatus = RayStatus.ok;
+  /** prism, Δ, components along lens-frame x and y (base direction, DESIGN §6) */
+  px = 0;
+  py = 0;
+  /** magnitude 100 tan δ, Δ */
+  prism = 0;
+  /** start of the eye-side ray (the centre of rotation for a line of sight) */
+  sx = 0; sy = 0; sz = 0;
+  /** visual point on the back surface */
+  bx = 0; by = 0; bz = 0;
+  /** exit point on the front surface */
+  fx = 0; fy = 0; fz = 0;
+  /** reverse direction on the eye side (from the start towards the back surface), unit */
+  ax = 0; ay = 0; az = 1;
+  /** reverse direction inside the lens, unit */
+  gx = 0; gy = 0; gz = 1;
+  /** reverse direction in object space, unit */
+  ox = 0; oy = 0; oz = 1;
+}
+
+const _hit = new Hit();
+const _sag = new SagEval();
+const _ray = new Ray();
+const _dir = { x: 0, y: 0, z: 0 };
+
+/**
+ * Exact line of sight: the ray from the centre of rotation (crX, crY, crZ) through the point
+ * of the back surface at transverse position (cx, cy), refracted at both surfaces.
+ * Returns the status (also in out.status).
+ *
+ * The exported functions are small wrappers that store their numbers in `out` and call a
+ * worker that takes only objects: a number passed to a call the compiler does not inline is
+ * boxed, i.e. allocated; this keeps the per-ray path free of allocation.
+ */
+export function traceLineOfSight(
+  lens: Lens, crX: number, crY: number, crZ: number, cx: number, cy: number, out: LineTrace,
+): RayStatus {
+  out.sx = crX; out.sy = crY; out.sz = crZ;
+  out.bx = cx; out.by = cy;
+  return lineOfSight(lens, out);
+}
+
+/** traceLineOfSight's work: start (out.sx..sz) and visual point (out.bx, out.by) in `out`. */
+export function lineOfSight(lens: Lens, out: LineTrace): RayStatus {
+  const h = _hit;
+  const cx = out.bx, cy = out.by;
+  if (cx * cx + cy * cy > lens.radiusMm * lens.radiusMm) return fail(out, RayStatus.beyondEdge);
+  h.x = cx; h.y = cy;
+  if (!lens.back.fillPoint(h)) return fail(out, RayStatus.miss);
+  out.bz = h.z;
+  let ax = cx - out.sx, ay = cy - out.sy, az = h.z - out.sz;
+  const len = Math.sqrt(ax * ax + ay * ay + az * az);
+  if (!(az > 0)) return fail(out, RayStatus.geometry);
+  ax /= len; ay /= len; az /= len;
+  out.ax = ax; out.ay = ay; out.az = az;
+  if (!refract(ax, ay, az, h.nx, h.ny, h.nz, 1, lens.index, _dir)) return fail(out, RayStatus.tir);
+  out.gx = _dir.x; out.gy = _dir.y; out.gz = _dir.z;
+  return throughFront(lens, out);
+}
+
+/**
+ * Exact focimeter reading at back-surface point (cx, cy): the instrument's beam meets the
+ * back surface along its normal (no bending there) and is bent at the front only (DESIGN §7.4).
+ * The eye-side direction `a` is that normal.
+ */
+export function traceFocimeter(lens: Lens, cx: number, cy: number, out: LineTrace): RayStatus {
+  out.bx = cx; out.by = cy;
+  return focimeter(lens, out);
+}
+
+/** traceFocimeter's work, reading the point from (out.bx, out.by). */
+export function focimeter(lens: Lens, out: LineTrace): RayStatus {
+  const h = _hit;
+  const cx = out.bx, cy = out.by;
+  if (cx * cx + cy * cy > lens.radiusMm * lens.radiusMm) return fail(out, RayStatus.beyondEdge);
+  h.x = cx; h.y = cy;
+  if (!lens.back.fillPoint(h)) return fail(out, RayStatus.miss);
+  out.bz = h.z;
+  out.ax = h.nx; out.ay = h.ny; out.az = h.nz;
+  out.gx = h.nx; out.gy = h.ny; out.gz = h.nz;
+  // a start point 10 mm behind along the normal, for drawing only
+  out.sx = cx - 10 * h.nx; out.sy = cy - 10 * h.ny; out.sz = h.z - 10 * h.nz;
+  return throughFront(lens, out);
+}
+
+/** From the back-surface point (out.b*) along out.g* inside the glass, out through the front. */
+function throughFront(lens: Lens, out: LineTrace): RayStatus {
+  const h = _hit;
+  _ray.set(out.bx, out.by, out.bz, out.gx, out.gy, out.gz);
+  if (!lens.front.intersect(_ray, h)) return fail(out, RayStatus.miss);
+  if (!(h.t > 0)) return fail(out, RayStatus.geometry);
+  const fx = h.x, fy = h.y, fz = h.z;
+  if (fx * fx + fy * fy > lens.radiusMm * lens.radiusMm) return fail(out, RayStatus.beyondEdge);
+  out.fx = fx; out.fy = fy; out.fz = fz;
+  // the exit point must lie where the lens has thickness: the back surface behind it
+  const solid = lens.solidRadiusMm;
+  if (fx * fx + fy * fy >= solid * solid) {
+    _sag.x = fx; _sag.y = fy;
+    if (!lens.back.evalSag(_sag) || !(fz > lens.back.vertexZ - _sag.sag)) return fail(out, RayStatus.geometry);
+  }
+  if (!refract(out.gx, out.gy, out.gz, h.nx, h.ny, h.nz, lens.index, 1, _dir)) return fail(out, RayStatus.tir);
+  out.ox = _dir.x; out.oy = _dir.y; out.oz = _dir.z;
+  return setPrism(out);
+}
+
+/**
+ * Prism of the deviation between reverse unit directions a (eye side) and o (object side):
+ * 100 tan δ towards the projection of o - a on the x-y plane.
+ */
+function setPrism(out: LineTrace): RayStatus {
+  const ax = out.ax, ay = out.ay, az = out.az, bx = out.ox, by = out.oy, bz = out.oz;
+  const cx = ay * bz - az * by, cy = az * bx - ax * bz, cz = ax * by - ay * bx;
+  const sin = Math.sqrt(cx * cx + cy * cy + cz * cz);
+  const cos = ax * bx + ay * by + az * bz;
+  if (!(cos > 0)) return fail(out, RayStatus.geometry);
+  const mag = (100 * sin) / cos;
+  const hx = bx - ax, hy = by - ay;
+  const h = Math.sqrt(hx * hx + hy * hy);
+  out.prism = mag;
+  if (h === 0 || mag === 0) {
+    out.px = 0; out.py = 0;
+  } else {
+    out.px = (mag * hx) / h;
+    out.py = (mag * hy) / h;
+  }
+  out.status = RayStatus.ok;
+  return RayStatus.ok;
+}
+
+function fail(out: LineTrace, status: RayStatus): RayStatus {
+  out.status = status;
+  out.px = 0; out.py = 0; out.prism = 0;
+  return status;
+}
+
+/**
+ * The reverse object-side direction that a given prism (px, py in Δ) would produce from the
+ * reverse eye-side unit direction a: turned by δ = atan(|p| / 100) towards the base
+ * direction. Used to draw the rays that Prentice's rule and the first-order value predict.
+ */
+export function deviatedDirection(
+  ax: number, ay: number, az: number, px: number, py: number, out: { x: number; y: number; z: number },
+): void {
+  const m = Math.sqrt(px * px + py * py);
+  if (m === 0) { out.x = ax; out.y = ay; out.z = az; return; }
+  // unit vector perpendicular to a, in the plane of a and the base direction
+  const wx = px / m, wy = py / m;
+  const dot = wx * ax + wy * ay;
+  let ex = wx - dot * ax, ey = wy - dot * ay, ez = -dot * az;
+  const el = Math.sqrt(ex * ex + ey * ey + ez * ez);
+  ex /= el; ey /= el; ez /= el;
+  const d = Math.atan(m / 100);
+  const c = Math.cos(d), s = Math.sin(d);
+  out.x = c * ax + s * ex;
+  out.y = c * ay + s * ey;
+  out.z = c * az + s * ez;
+}

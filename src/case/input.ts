@@ -70,16 +70,21 @@ export interface Range {
 
 /** Check a number against a range; the message says what was expected. */
 export function inRange(field: string, v: number, r: Range): number {
-  const u = r.unit ? ` ${r.unit}` : '';
-  if (r.min !== undefined && (r.above ? !(v > r.min) : !(v >= r.min))) {
-    const want = r.max !== undefined ? `between ${r.min} and ${r.max}${u}` : `${r.above ? 'greater than' : 'at least'} ${r.min}${u}`;
-    throw new InputError(field, `must be ${want}, got ${v}`);
-  }
-  if (r.max !== undefined && !(v <= r.max)) {
-    const want = r.min !== undefined ? `between ${r.min} and ${r.max}${u}` : `at most ${r.max}${u}`;
-    throw new InputError(field, `must be ${want}, got ${v}`);
-  }
+  const low = r.min === undefined ? undefined : r.above ? !(v > r.min) : !(v >= r.min);
+  const high = r.max === undefined ? undefined : !(v <= r.max);
+  if (low || high) throw new InputError(field, `must be ${describeRange(r)}, got ${v}`);
   return v;
+}
+
+/** "between 0 and 30 mm", "greater than 1", "greater than 0 and at most 30 mm". */
+export function describeRange(r: Range): string {
+  const u = r.unit ? ` ${r.unit}` : '';
+  if (r.min !== undefined && r.max !== undefined) {
+    return r.above ? `greater than ${r.min} and at most ${r.max}${u}` : `between ${r.min} and ${r.max}${u}`;
+  }
+  if (r.min !== undefined) return `${r.above ? 'greater than' : 'at least'} ${r.min}${u}`;
+  if (r.max !== undefined) return `at most ${r.max}${u}`;
+  return 'a finite number';
 }
 
 function clip(s: string): string {

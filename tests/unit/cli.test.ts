@@ -1,0 +1,163 @@
+// The decentra command line: the DESIGN §9 contract (flags, JSON shape, failures, errors).
+import { execFileSync, spawnSync } from 'node:child_process';
+import { existsSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import { run } from '../../src/cli/main.ts';
+import { fourAnswers, makeLens } from '../../src/optics/index.ts';
+
+const CONTRACT = ['--sphere', '8', '--cyl', '0', '--axis', '0', '--index', '1.5', '--front', '12', '--ct', '7', '--x', '10', '--y', '0', '--cr', '27', '--eye', 'R', '--json'];
+
+function traceJson(args: string[]): any {
+  const r = run(['trace', ...args]);
+  expect(r.err).toBeUndefined();
+  expect(r.code).toBe(0);
+  return JSON.parse(r.out);
+}
+
+describe('decentra trace --json (DESIGN §9)', () => {
+  it('prints one object with exactly the contract keys', () => {
+    const j = traceJson(CONTRACT);
+    expect(Object.keys(j).sort()).toEqual(['error', 'exact', 'eye', 'focimeter', 'input', 'paraxial', 'prentice']);
+    for (const k of ['prentice', 'paraxial', 'exact', 'focimeter']) {
+      expect(Object.keys(j[k]).sort()).toEqual(['baseAngle', 'horizontal', 'magnitude', 'vertical', 'x', 'y']);
+      expect(j[k].baseAngle).toBeGreaterThanOrEqual(0);
+      expect(j[k].baseAngle).toBeLessThan(360);
+    }
+    expect(Object.keys(j.error).sort()).toEqual(['percent', 'prism']);
+  });
+
+  it('gives the engine values for the same lens (the CLI computes nothing itself)', () => {
+    const j = traceJson(CONTRACT);
+    const r = fourAnswers(makeLens({ sphereD: 8, cylD: 0, axisDeg: 0, index: 1.5, frontD: 12, ctMm: 7 }), 27, 10, 0, 'R');
+    expect(j.exact.x).toBe((r.exact as any).x);
+    expect(j.focimeter.x).toBe((r.focimeter as any).x);
+    expect(j.paraxial.x).toBe(r.paraxial.x);
+  });
+
+  it('Prentice on the design example: +8.00 D, 10 mm towards the wearer\'s left of the OC, right eye = 8 Δ base out', () => {
+    // DESIGN §6: p = -F c, c = +1 cm along x (nasal for the right eye) -> px = -8: base out
+    const j = traceJson(CONTRACT);
+    expect(j.prentice.x).toBeCloseTo(-8, 12);
+    expect(j.prentice.horizontal).toEqual({ amount: 8, base: 'out' });
+    expect(j.prentice.vertical).toEqual({ amount: 0, base: null });
+    expect(j.prentice.baseAngle).toBe(180);
+  });
+
+  it('error = |Prentice| - |exact|, in Δ and in % of |exact|', () => {
+    const j = traceJson(CONTRACT);
+    expect(j.error.prism).toBeCloseTo(j.prentice.magnitude - j.exact.magnitude, 12);
+    expect(j.error.percent).toBeCloseTo((100 * (j.prentice.magnitude - j.exact.magnitude)) / j.exact.magnitude, 10);
+  });
+
+  it('accepts --flag=value and negative numbers as values', () => {
+    const a = traceJson(['--sphere=-6', '--index=1.5', '--front=2', '--ct=2', '--x=-3', '--y', '-4', '--json']);
+    const b = traceJson(['--sphere', '-6', '--index', '1.5', '--front', '2', '--ct', '2', '--x', '-3', '--y=-4', '--json']);
+    expect(a).toEqual(b);
+    expect(a.input.x).toBe(-3);
+    expect(a.input.y).toBe(-4);
+  });
+
+  it('reports an uncomputable point as a failure object with exit status 0', () => {
+    // +20 D with a thin centre: at 20 mm the surfaces have crossed (no thickness there)
+    const j = traceJson(['--sphere', '20', '--index', '1.5', '--front', '24', '--ct', '3', '--x', '20', '--json']);
+    expect(j.exact.failure).toMatch(/^(geometry|miss|tir)$/);
+    expect(typeof j.exact.message).toBe('string');
+    expect(j.error).toBeNull();
+    expect(j.prentice.magnitude).toBeCloseTo(40, 10); // Prentice still answers: 2 cm x 20 D
+  });
+
+  it('left eye: base labels follow the eye', () => {
+    const j = traceJson(['--sphere', '-6', '--index', '1.5', '--front', '2', '--ct', '2', '--x', '-2', '--eye', 'L', '--json']);
+    // DESIGN §6: left eye, px < 0 is base in; -6 D with c = -0.2 cm: px = -(-6)(-0.2) = -1.2
+    expect(j.prentice.horizontal).toEqual({ amount: expect.closeTo(1.2, 12), base: 'in' });
+  });
+
+  it('converts a value typed in cm, never taking it as mm', () => {
+    const a = traceJson(['--sphere', '5', '--index', '1.5', '--front', '8', '--ct', '4', '--y', '-0.3cm', '--json']);
+    expect(a.input.y).toBeCloseTo(-3, 12);
+    expect(a.prentice.vertical.amount).toBeCloseTo(1.5, 12); // DESIGN §6: +5 D, 3 mm below: 1.5 Δ base up
+    expect(a.prentice.vertical.base).toBe('up');
+  });
+});
+
+describe('bad input: exit non-zero with one line naming the flag and the reason', () => {
+  const cases: [string, string[], RegExp][] = [
+    ['index <= 1', ['--sphere', '2', '--index', '0.9', '--front', '6', '--ct', '3'], /--index: must be greater than 1/],
+    ['negative thickness', ['--sphere', '2', '--index', '1.5', '--front', '6', '--ct', '-1'], /--ct: must be greater than 0/],
+    ['not a number', ['--sphere', 'abc'], /--sphere: must be a number/],
+    ['unknown flag', ['--sphere', '2', '--colour', 'red'], /--colour: is not a known flag/],
+    ['missing value', ['--sphere'], /--sphere: needs a value/],
+    ['repeated flag', ['--sphere', '2', '--sphere', '3'], /--sphere: is given more than once/],
+    ['wrong unit', ['--sphere', '2', '--x', '3 D'], /--x: unit 'D' is not accepted/],
+    ['bad eye', ['--sphere', '2', '--eye', 'X'], /--eye: must be R or L/],
+    ['sphere missing', ['--index', '1.5'], /--sphere: is required/],
+    ['visual point outside the lens', ['--sphere', '2', '--index', '1.5', '--front', '6', '--ct', '3', '--diameter', '50', '--x', '30'], /--x: the visual point .* outside the 50 mm lens/],
+    ['surfaces cross inside the diameter', ['--sphere', '10', '--index', '1.5', '--front', '14', '--ct', '3', '--diameter', '60'], /--ct: front and back surfaces cross/],
+    ['index and material both', ['--sphere', '2', '--index', '1.5', '--material', 'polycarbonate'], /--index: give either/],
+    ['unknown material', ['--sphere', '2', '--material', 'unobtainium'], /--material: unknown material/],
+  ];
+  it.each(cases)('%s', (_name, args, message) => {
+    const r = run(['trace', ...args]);
+    expect(r.code).not.toBe(0);
+    expect(r.out).toBe('');
+    expect(r.err).toMatch(message);
+    expect(r.err!.split('\n')).toHaveLength(1);
+  });
+
+  it('an unknown command is an error', () => {
+    const r = run(['frobnicate']);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/unknown command 'frobnicate'/);
+  });
+});
+
+describe('help', () => {
+  it.each([['trace'], ['sweep']])('%s --help explains the command', (cmd) => {
+    const r = run([cmd, '--help']);
+    expect(r.code).toBe(0);
+    expect(r.out).toMatch(new RegExp(`^decentra ${cmd}:`));
+  });
+  it('decentra --help lists the commands', () => {
+    expect(run(['--help']).out).toMatch(/trace[\s\S]*sweep/);
+  });
+});
+
+describe('decentra sweep', () => {
+  it('CSV: one header and one row per power x decentration, no NaN anywhere', () => {
+    const r = run(['sweep', '--material', 'resin-1.60', '--power', '6:8:1', '--decentration', '0:10:5', '--min-edge', '1', '--diameter', '60']);
+    expect(r.code).toBe(0);
+    const lines = r.out.trim().split('\n');
+    expect(lines[0]).toBe('power_D,decentration_mm,front_D,ct_mm,prentice,paraxial,exact,focimeter,error_prism,error_percent,status,note');
+    expect(lines).toHaveLength(1 + 3 * 3);
+    expect(r.out).not.toMatch(/NaN|Infinity/);
+    // Prentice column: |c| F with c in cm (Prentice 1890)
+    const row = lines.find((l) => l.startsWith('8,10,'))!.split(',');
+    expect(Number(row[4])).toBeCloseTo(8, 10);
+  });
+
+  it('JSON rows agree with trace for the same lens', () => {
+    const s = JSON.parse(run(['sweep', '--index', '1.5', '--front', '12', '--ct', '7', '--power', '8:8:1', '--decentration', '10:10:1', '--format', 'json']).out);
+    const t = traceJson(['--sphere', '8', '--index', '1.5', '--front', '12', '--ct', '7', '--x', '10', '--json']);
+    expect(s.rows[0].exact).toBe(t.exact.magnitude);
+    expect(s.rows[0].focimeter).toBe(t.focimeter.magnitude);
+  });
+
+  it('rejects a malformed range', () => {
+    const r = run(['sweep', '--power', '6:12', '--decentration', '0:10:1']);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/--power: must be START:STOP:STEP/);
+  });
+});
+
+describe('the built command', () => {
+  const bin = 'bin/decentra.mjs';
+  it.runIf(existsSync('dist-cli/decentra.mjs'))('runs as plain JavaScript and exits 2 with one stderr line on a bad flag', () => {
+    const ok = execFileSync('node', [bin, 'trace', ...CONTRACT], { encoding: 'utf8' });
+    expect(JSON.parse(ok).eye).toBe('R');
+    const bad = spawnSync('node', [bin, 'trace', '--sphere', '2', '--ct', '-1'], { encoding: 'utf8' });
+    expect(bad.status).toBe(2);
+    expect(bad.stdout).toBe('');
+    expect(bad.stderr.trim().split('\n')).toHaveLength(1);
+    expect(bad.stderr).toMatch(/--ct/);
+  });
+});

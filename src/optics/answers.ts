@@ -7,10 +7,11 @@
  * and firstOrder.ts directly with reused scratch objects.
  */
 import { FAILURE_NAMES, type FailureName, RayStatus, failureMessage } from './errors.ts';
-import { eyeMatrix, focimeterMatrix, prismFromMatrix } from './firstOrder.ts';
+import { eyePrismOffAxis, focimeterMatrix, prismFromMatrix } from './firstOrder.ts';
 import type { Lens } from './lens.ts';
 import { type Eye, type PrismDescription, describePrism } from './notation.ts';
-import { LineTrace, traceFocimeter, traceLineOfSight } from './trace.ts';
+import { Placement, placedLineOfSight } from './placement.ts';
+import { LineTrace, traceFocimeter } from './trace.ts';
 
 export interface TraceFailure {
   failure: FailureName;
@@ -52,16 +53,28 @@ export function failureOf(status: RayStatus): TraceFailure {
  * untilted lens with the centre of rotation crDistanceMm behind the back vertex on its axis.
  */
 export function fourAnswers(lens: Lens, crDistanceMm: number, cxMm: number, cyMm: number, eye: Eye): FourAnswers {
+  const pl = new Placement({ ocXMm: 0, ocYMm: 0, crDistanceMm, pantoDeg: 0, wrapDeg: 0, eye });
+  return fourAnswersPlaced(lens, pl, cxMm, cyMm, eye);
+}
+
+/**
+ * The four answers at back-surface point (cxMm, cyMm) of a placed lens (lens frame, relative
+ * to the optical centre). The exact line of sight starts at the eye's centre of rotation
+ * wherever the placement puts it; its prism components are in the wearer frame. Prentice,
+ * first-order and focimeter values are lens properties in the lens frame (the first-order
+ * value takes the centre of rotation's position in that frame, docs/method.md).
+ */
+export function fourAnswersPlaced(lens: Lens, pl: Placement, cxMm: number, cyMm: number, eye: Eye): FourAnswers {
   const v = { x: 0, y: 0 };
   prismFromMatrix(lens.vertexMatrix, cxMm, cyMm, v);
   const prentice = describePrism(v.x, v.y, eye);
-  prismFromMatrix(eyeMatrix(lens, crDistanceMm), cxMm, cyMm, v);
+  eyePrismOffAxis(lens, pl.crLensX, pl.crLensY, -pl.crLensZ, cxMm, cyMm, v);
   const paraxial = describePrism(v.x, v.y, eye);
   prismFromMatrix(focimeterMatrix(lens), cxMm, cyMm, v);
   const focimeterFirstOrder = describePrism(v.x, v.y, eye);
 
   const exactTrace = new LineTrace();
-  const s1 = traceLineOfSight(lens, 0, 0, -crDistanceMm, cxMm, cyMm, exactTrace);
+  const s1 = placedLineOfSight(lens, pl, cxMm, cyMm, exactTrace);
   const exact: Answer = s1 === RayStatus.ok ? describePrism(exactTrace.px, exactTrace.py, eye) : failureOf(s1);
   const focimeterTrace = new LineTrace();
   const s2 = traceFocimeter(lens, cxMm, cyMm, focimeterTrace);

@@ -29,6 +29,23 @@ export function firstOrderMatrix(lens: Lens, k: Mat2): Mat2 {
   return add(lens.backMatrix, mul(lens.frontMatrix, inner));
 }
 
+/**
+ * First-order prism at the eye when the centre of rotation is not on the lens axis: at
+ * lens-frame transverse position q (mm) and s mm behind the back vertex. The paraxial trace
+ * of docs/method.md gives p = -[Fe c + (t/n)(F1/s)(c - q)], Fe the equivalent power matrix,
+ * i.e. the on-axis value plus (t/n)(F1/s) q. c and q in mm, p in Δ, into out.
+ */
+export function eyePrismOffAxis(
+  lens: Lens, qxMm: number, qyMm: number, crDistanceMm: number, cxMm: number, cyMm: number,
+  out: { x: number; y: number },
+): void {
+  prismFromMatrix(eyeMatrix(lens, crDistanceMm), cxMm, cyMm, out);
+  const k = (lens.ctMm / lens.index / crDistanceMm) / 10; // (t/n)/s, and mm -> cm
+  const f = lens.frontMatrix;
+  out.x += k * (f[0] * qxMm + f[1] * qyMm);
+  out.y += k * (f[2] * qxMm + f[3] * qyMm);
+}
+
 /** First-order prism matrix at the eye, for a centre of rotation s mm behind the back vertex. */
 export function eyeMatrix(lens: Lens, crDistanceMm: number): Mat2 {
   return firstOrderMatrix(lens, scalarMatrix(1000 / crDistanceMm));

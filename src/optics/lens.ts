@@ -156,6 +156,17 @@ export class Lens {
     return { min, max };
   }
 
+  /**
+   * The same lens (same surfaces and thickness) in a material of another index, for traces at
+   * other wavelengths. Its power matrices still describe the design index.
+   */
+  withIndex(index: number): Lens {
+    const copy = Object.create(Lens.prototype) as Lens;
+    Object.assign(copy, this);
+    (copy as { index: number }).index = index;
+    return copy;
+  }
+
   /** Equivalent power matrix Fe = F1 + F2 - (t/n) F1 F2, D. */
   equivalentMatrix(): Mat2 {
     return add(add(this.frontMatrix, this.backMatrix), scale(mul(this.frontMatrix, this.backMatrix), -this.ctMm / 1000 / this.index));

@@ -133,18 +133,31 @@ function setPrism(out: LineTrace): RayStatus {
   const sin = Math.sqrt(cx * cx + cy * cy + cz * cz);
   const cos = ax * bx + ay * by + az * bz;
   if (!(cos > 0)) return fail(out, RayStatus.geometry);
-  const mag = (100 * sin) / cos;
-  const hx = bx - ax, hy = by - ay;
+  out.prism = (100 * sin) / cos;
+  splitPrism(out, bx - ax, by - ay);
+  out.status = RayStatus.ok;
+  return RayStatus.ok;
+}
+
+/** Components of out.prism along the base direction (hx, hy). */
+function splitPrism(out: LineTrace, hx: number, hy: number): void {
   const h = Math.sqrt(hx * hx + hy * hy);
-  out.prism = mag;
+  const mag = out.prism;
   if (h === 0 || mag === 0) {
     out.px = 0; out.py = 0;
   } else {
     out.px = (mag * hx) / h;
     out.py = (mag * hy) / h;
   }
-  out.status = RayStatus.ok;
-  return RayStatus.ok;
+}
+
+/**
+ * Re-take the prism components of a finished trace in another frame: `r` (row-major 3x3)
+ * turns lens-frame directions into that frame (a tilted lens's eye frame).
+ */
+export function setPrismComponents(out: LineTrace, r: Float64Array): void {
+  const dx = out.ox - out.ax, dy = out.oy - out.ay, dz = out.oz - out.az;
+  splitPrism(out, r[0]! * dx + r[1]! * dy + r[2]! * dz, r[3]! * dx + r[4]! * dy + r[5]! * dz);
 }
 
 function fail(out: LineTrace, status: RayStatus): RayStatus {

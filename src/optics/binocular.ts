@@ -1,0 +1,109 @@
+/**
+ * Both eyes looking at one target through their lenses (shared/DESIGN.md §8).
+ *
+ * Binocular frame: the wearer frame with its origin midway between the two centres of
+ * rotation: right CR at x = -pdR, left CR at x = +pdL (monocular PDs, mm). Each eye's own
+ * frame is this one shifted to its CR.
+ *
+ * Per eye: the visual point (solved exactly), the four answers there. Binocular: net
+ * horizontal prism (base in positive), vertical imbalance (right minus left), each eye's
+ * change of rotation against looking at the same target without lenses, and the same
+ * binocular values by Prentice's rule at the same visual points.
+ */
+import { type FourAnswers, fourAnswersPlaced, isFailure } from './answers.ts';
+import type { Lens } from './lens.ts';
+import type { Eye } from './notation.ts';
+import { type Fixation, type Target, solveFixation } from './fixation.ts';
+import type { Placement } from './placement.ts';
+
+export interface EyeSetup {
+  lens: Lens;
+  placement: Placement;
+  /** monocular PD, mm */
+  pdMm: number;
+}
+
+export interface EyeResult {
+  eye: Eye;
+  fixation: Fixation;
+  /** visual point relative to the optical centre (lens frame), mm */
+  fromOcMm: { x: number; y: number };
+  /** visual point relative to the pupil's straight-ahead position (eye frame), mm */
+  fromPupilMm: { x: number; y: number };
+  answers: FourAnswers | null;
+  /** change of the eye's rotation caused by the lens, degrees: + = turns towards +x / up */
+  rotationChangeDeg: { horizontal: number; vertical: number };
+}
+
+export interface SignedPair {
+  /** net horizontal prism, Δ: > 0 base in, < 0 base out */
+  netHorizontal: number;
+  /** vertical imbalance right minus left, Δ: > 0 the right eye is base up relative to the left */
+  verticalImbalance: number;
+}
+
+export interface BinocularResult {
+  right: EyeResult;
+  left: EyeResult;
+  /** exact values, null when an eye has no exact answer */
+  exact: SignedPair | null;
+  prentice: SignedPair | null;
+}
+
+/** Base-in component of a prism, Δ (positive base in), for one eye. */
+export function baseInComponent(px: number, eye: Eye): number {
+  return eye === 'R' ? px : -px;
+}
+
+/** The pair's signed values from each eye's components. */
+export function pairValues(rx: number, ry: number, lx: number, ly: number): SignedPair {
+  return { netHorizontal: baseInComponent(rx, 'R') + baseInComponent(lx, 'L'), verticalImbalance: ry - ly };
+}
+
+/** A target in the binocular frame, seen from one eye's frame. */
+export function targetForEye(target: Target, eye: Eye, pdMm: number): Target {
+  if (target.kind === 'direction') return target;
+  const crX = eye === 'R' ? -pdMm : pdMm;
+  return { kind: 'point', x: target.x - crX, y: target.y, z: target.z };
+}
+
+function solveEye(setup: EyeSetup, eye: Eye, target: Target): EyeResult {
+  const t = targetForEye(target, eye, setup.pdMm);
+  const fix = solveFixation(setup.lens, setup.placement, t);
+  const tr = fix.trace;
+  let answers: FourAnswers | null = null;
+  let fromPupil = { x: 0, y: 0 };
+  let rotation = { horizontal: 0, vertical: 0 };
+  if (fix.status === 'ok') {
+    answers = fourAnswersPlaced(setup.lens, setup.placement, fix.cx, fix.cy, eye);
+    const pl = setup.placement;
+    const b = pl.toEyePoint(tr.bx, tr.by, tr.bz);
+    fromPupil = { x: b.x, y: b.y };
+    // eye-side light direction reversed (from the CR outwards), in the eye frame
+    const a = pl.toEyeDir(tr.ax, tr.ay, tr.az);
+    // without lenses: straight at the target
+    const d = t;
+    rotation = {
+      horizontal: angleDeg(Math.atan2(a.x, a.z)) - angleDeg(Math.atan2(d.x, d.z)),
+      vertical: angleDeg(Math.atan2(a.y, Math.hypot(a.x, a.z))) - angleDeg(Math.atan2(d.y, Math.hypot(d.x, d.z))),
+    };
+  }
+  return { eye, fixation: fix, fromOcMm: { x: fix.cx, y: fix.cy }, fromPupilMm: fromPupil, answers, rotationChangeDeg: rotation };
+}
+
+function angleDeg(rad: number): number {
+  return (rad * 180) / Math.PI;
+}
+
+export function binocular(right: EyeSetup, left: EyeSetup, target: Target): BinocularResult {
+  const r = solveEye(right, 'R', target);
+  const l = solveEye(left, 'L', target);
+  let exact: SignedPair | null = null;
+  let prentice: SignedPair | null = null;
+  if (r.answers && l.answers) {
+    prentice = pairValues(r.answers.prentice.x, r.answers.prentice.y, l.answers.prentice.x, l.answers.prentice.y);
+    const re = r.answers.exact, le = l.answers.exact;
+    if (!isFailure(re) && !isFailure(le)) exact = pairValues(re.x, re.y, le.x, le.y);
+  }
+  return { right: r, left: l, exact, prentice };
+}

@@ -59,6 +59,9 @@ export interface ViewDisplay {
   focimeterRay: boolean;
 }
 
+/** The deviation magnifications offered (display only). */
+export const MAG_CHOICES = [1, 2, 5, 10, 20, 50, 100] as const;
+
 export const DEFAULT_DISPLAY: ViewDisplay = { mag: 1, mapQuantity: 'exact', tab: 'section', labels: true, focimeterRay: false };
 
 /** Query keys for each field (short, stable: links depend on them). */
@@ -129,7 +132,7 @@ export function caseFromQuery(query: string, base: ViewCase, baseDisplay: ViewDi
   const mag = q.get('mag');
   if (mag !== null) {
     const m = Number(mag);
-    if (Number.isFinite(m) && m >= 1 && m <= 200) display.mag = m;
+    if ((MAG_CHOICES as readonly number[]).includes(m)) display.mag = m;
     else ignored.push(`mag=${mag.slice(0, MAX_TEXT)}`);
   }
   const map = q.get('map');

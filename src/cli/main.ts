@@ -4,6 +4,9 @@
  */
 import { InputError } from '../case/input.ts';
 import { MATERIALS } from '../optics/index.ts';
+import { FIT_HELP, runFit } from './fit.ts';
+import { LIMITS_HELP, runLimits } from './limits.ts';
+import { NEAR_HELP, runNear } from './near.ts';
 import { SWEEP_HELP, runSweep } from './sweep.ts';
 import { TRACE_HELP, runTrace } from './trace.ts';
 
@@ -14,6 +17,9 @@ Usage: decentra <command> [flags]
 Commands
   trace       the four answers (Prentice, first-order, exact, focimeter) at one visual point
   sweep       a table over powers and decentrations for a lens family (CSV or JSON)
+  near        the visual point and prism for a target in front of the eye (exact trace)
+  limits      the largest decentration within a prism tolerance, exactly and by Prentice
+  fit         a whole binocular case from a case file: both eyes, net prism, verdicts
   materials   the lens materials known by name
   help        this text; "decentra <command> --help" explains a command
 
@@ -32,6 +38,12 @@ export function run(argv: readonly string[]): { out: string; code: number; err?:
         return { out: runTrace(rest), code: 0 };
       case 'sweep':
         return { out: runSweep(rest), code: 0 };
+      case 'near':
+        return { out: runNear(rest), code: 0 };
+      case 'limits':
+        return { out: runLimits(rest), code: 0 };
+      case 'fit':
+        return { out: runFit(rest), code: 0 };
       case 'materials':
         return { out: materials(), code: 0 };
       case undefined:
@@ -48,4 +60,4 @@ export function run(argv: readonly string[]): { out: string; code: number; err?:
   }
 }
 
-export { TRACE_HELP, SWEEP_HELP };
+export { TRACE_HELP, SWEEP_HELP, NEAR_HELP, LIMITS_HELP, FIT_HELP };

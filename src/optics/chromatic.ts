@@ -9,7 +9,8 @@
  */
 import { RayStatus } from './errors.ts';
 import type { Lens } from './lens.ts';
-import { LineTrace, lineOfSight } from './trace.ts';
+import { Placement, placedLineOfSight } from './placement.ts';
+import { LineTrace } from './trace.ts';
 
 export const PARTIAL_DISPERSION_F = 0.7;
 
@@ -25,13 +26,18 @@ export interface Tca {
   ruleDelta: number | null;
 }
 
-export function transverseChromatic(lens: Lens, abbe: number, crMm: number, cx: number, cy: number): Tca {
+/**
+ * TCA at back-surface point (cx, cy) of a placed lens (or of an untilted lens with the centre
+ * of rotation crMm behind it on its axis, when a number is given).
+ */
+export function transverseChromatic(lens: Lens, abbe: number, where: Placement | number, cx: number, cy: number): Tca {
   const { nF, nC } = lineIndices(lens.index, abbe);
+  const pl = typeof where === 'number'
+    ? new Placement({ ocXMm: 0, ocYMm: 0, crDistanceMm: where, pantoDeg: 0, wrapDeg: 0, eye: 'R' })
+    : where;
   const t = new LineTrace();
-  const at = (l: Lens): { x: number; y: number; m: number } | null => {
-    t.sx = 0; t.sy = 0; t.sz = -crMm; t.bx = cx; t.by = cy;
-    return lineOfSight(l, t) === RayStatus.ok ? { x: t.px, y: t.py, m: t.prism } : null;
-  };
+  const at = (l: Lens): { x: number; y: number; m: number } | null =>
+    placedLineOfSight(l, pl, cx, cy, t) === RayStatus.ok ? { x: t.px, y: t.py, m: t.prism } : null;
   const d = at(lens), f = at(lens.withIndex(nF)), c = at(lens.withIndex(nC));
   return {
     exactDelta: f && c ? Math.hypot(f.x - c.x, f.y - c.y) : null,

@@ -9,7 +9,7 @@
  */
 import { OpticsError } from './errors.ts';
 import { type Mat2, powerMatrix, add, mul, scale } from './powerMatrix.ts';
-import { SagEval, Surface, type ToricForm } from './surface.ts';
+import { SagEval, Surface, SurfaceKind, type ToricForm } from './surface.ts';
 
 export interface LensSpec {
   sphereD: number;
@@ -118,8 +118,10 @@ export class Lens {
     const step = 0.25;
     let solid = Math.min(this.radiusMm, 100);
     const a0 = this.spec.axisDeg;
-    // surfaces here are symmetric under (x, y) -> (-x, -y): half a turn suffices
-    for (let i = 0; i < 14; i++) {
+    // surfaces here are symmetric under (x, y) -> (-x, -y): half a turn suffices; a lens of
+    // revolution needs one meridian
+    const symmetric = this.front.kind !== SurfaceKind.toric && this.back.kind !== SurfaceKind.toric;
+    for (let i = symmetric ? 13 : 0; i < 14; i++) {
       const deg = i < 12 ? i * 15 : a0 + 90 * (i - 12);
       const c = Math.cos((deg * Math.PI) / 180), s = Math.sin((deg * Math.PI) / 180);
       for (let r = step; r <= solid; r += step) {

@@ -337,21 +337,25 @@ export class Surface {
     return this.evalSag(_sag) ? L.pz + t * L.dz + _sag.sag : NaN;
   }
 
-  /** From _solve.t (the vertex-plane hit), find the nearest root; result in _solve.t. */
+  /**
+   * From _solve.t (the vertex-plane hit), find the nearest root; result in _solve.t. The
+   * vertex-plane point may lie outside the surface's domain (a steep torus met obliquely):
+   * each side then starts from its first point where the surface exists.
+   */
   private bracketToric(L: Ray): boolean {
     const S = _solve;
     const t0 = S.t;
     const f0 = this.gAt(L, t0);
-    if (Number.isNaN(f0)) return false;
     if (f0 === 0) return true;
-    // walk outwards both ways from the vertex plane; the first sign change is the hit
-    // nearest the vertex plane, i.e. on the vertex sheet of the surface
+    // walk outwards both ways from the vertex plane; the first sign change between two
+    // points where the surface exists is the hit nearest the vertex plane
     let tp = t0, fp = f0, tm = t0, fm = f0;
     for (let h = 0.25; h < 1e4; h *= 2) {
       const t1 = t0 + h;
       const f1 = this.gAt(L, t1);
       if (!Number.isNaN(f1)) {
-        if (f1 > 0 !== fp > 0 || f1 === 0) {
+        if (f1 === 0) { S.t = t1; return true; }
+        if (!Number.isNaN(fp) && f1 > 0 !== fp > 0) {
           S.lo = tp; S.flo = fp; S.hi = t1;
           return this.refineToric(L);
         }
@@ -360,7 +364,8 @@ export class Surface {
       const t2 = t0 - h;
       const f2 = this.gAt(L, t2);
       if (!Number.isNaN(f2)) {
-        if (f2 > 0 !== fm > 0 || f2 === 0) {
+        if (f2 === 0) { S.t = t2; return true; }
+        if (!Number.isNaN(fm) && f2 > 0 !== fm > 0) {
           S.lo = tm; S.flo = fm; S.hi = t2;
           return this.refineToric(L);
         }

@@ -17,7 +17,7 @@ export type FrontSpec =
 
 export type ThicknessSpec =
   | { kind: 'centre'; ctMm: number; diameterMm?: number }
-  | { kind: 'rule'; diameterMm: number; minEdgeMm: number; minCentreMm: number };
+  | { kind: 'rule'; diameterMm: number; minEdgeMm: number; minCentreMm: number; diameterIsDefault?: boolean };
 
 export interface LensForm {
   sphereD: number;
@@ -172,6 +172,7 @@ export function readLensForm(f: RawFields, label: Labeller): LensForm {
     thickness = {
       kind: 'rule',
       diameterMm: diameter ?? DEFAULTS.diameterMm,
+      ...(diameter === undefined ? { diameterIsDefault: true } : {}),
       minEdgeMm: present(f.minEdge) ? num('minEdge', 'length', LIMITS.minEdge) : DEFAULTS.minEdgeMm,
       minCentreMm: present(f.minCt) ? num('minCt', 'length', LIMITS.minCt) : DEFAULTS.minCentreMm,
     };
@@ -212,7 +213,10 @@ export function buildLens(form: LensForm, label: Labeller): Lens {
     if (e instanceof OpticsError) {
       const key: FieldKey = e.field === 'front' ? (form.front.kind === 'true' ? 'front' : form.front.kind === 'nominal' ? 'base' : 'frontRule')
         : e.field === 'diameter' ? 'diameter' : th.kind === 'centre' ? 'ct' : 'minEdge';
-      throw new InputError(label(key), e.message);
+      const hint = key === 'diameter' && th.kind === 'rule' && th.diameterIsDefault
+        ? ` (${th.diameterMm} mm is the default diameter of the thickness rule; give ${label('ct')} or ${label('diameter')})`
+        : '';
+      throw new InputError(label(key), e.message + hint);
     }
     throw e;
   }

@@ -1,6 +1,7 @@
 /** `decentra trace`: the four answers at one visual point (DESIGN §9). */
 import { InputError } from '../case/input.ts';
-import { type FieldKey, type RawFields, readTraceCase } from '../case/lensCase.ts';
+import { type FieldKey, type RawFields, readEye, readTraceCase } from '../case/lensCase.ts';
+import { loadCaseFile } from './fit.ts';
 import { fourAnswers, isFailure } from '../optics/index.ts';
 import { type ParsedArgs, LENS_FLAGS, flagOf, parseArgs } from './args.ts';
 import { CAUTION, answerCells, fourAnswersJson, signed, table } from './format.ts';
@@ -8,6 +9,7 @@ import { CAUTION, answerCells, fourAnswersJson, signed, table } from './format.t
 export const TRACE_HELP = `decentra trace: prism at one visual point of a thick lens, four ways.
 
 Usage: decentra trace --sphere D [options] [--json]
+       decentra trace CASE.json [--eye R|L] [--x mm --y mm] [--json]   (lens from a case file)
 
 The lens is untilted and the centre of rotation lies on its optical axis. Lengths are in mm
 (a value may carry a unit: "0.25cm"), powers in dioptres, angles in degrees.
@@ -54,8 +56,18 @@ export function rawFields(args: ParsedArgs): RawFields {
 export function runTrace(argv: readonly string[]): string {
   const args = parseArgs(argv, TRACE_FLAGS);
   if (args.switches.has('help')) return TRACE_HELP;
-  if (args.positional.length) throw new InputError(args.positional[0]!, 'unexpected argument (flags start with --)');
-  const f = rawFields(args);
+  if (args.positional.length > 1) throw new InputError(args.positional[1]!, 'unexpected argument (flags start with --)');
+  let f = rawFields(args);
+  if (args.positional.length === 1) {
+    // a case file gives the lens of one eye (--eye, default R) and its fitting distance
+    const given = Object.keys(f).filter((k) => k !== 'eye');
+    if (given.length) throw new InputError(flagOf(given[0]!), 'comes from the case file; give only --eye, --x and --y with a case file');
+    const c = loadCaseFile(args.positional[0]!);
+    const side = f.eye === undefined ? 'right' : readEye('--eye', f.eye) === 'R' ? 'right' : 'left';
+    const eyeDoc = c.doc[side] as Record<string, unknown>;
+    f = { eye: side === 'right' ? 'R' : 'L', cr: c[side].crMm };
+    for (const k of Object.values(LENS_FLAGS)) if (k !== 'eye' && k !== 'cr' && eyeDoc[k] !== undefined) f[k] = eyeDoc[k];
+  }
   f.x = args.values.get('x');
   f.y = args.values.get('y');
   const { tc, lens } = readTraceCase(f, flagOf);

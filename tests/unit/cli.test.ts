@@ -161,3 +161,17 @@ describe('the built command', () => {
     expect(bad.stderr).toMatch(/--ct/);
   });
 });
+
+describe('decentra trace CASE.json', () => {
+  it('takes the lens of the chosen eye from the case file, and agrees with the same lens given by flags', () => {
+    const fromFile = traceJson(['examples/anisometropic-reader.json', '--eye', 'L', '--y', '-10', '--json']);
+    const byFlags = traceJson(['--sphere', '4.5', '--material', 'resin-1.60', '--ct', '5', '--eye', 'L', '--y', '-10', '--json']);
+    expect(fromFile.exact).toEqual(byFlags.exact);
+    expect(fromFile.prentice.vertical).toEqual({ amount: expect.closeTo(4.5, 12), base: 'up' });
+  });
+  it('refuses lens flags beside a case file', () => {
+    const r = run(['trace', 'examples/anisometropic-reader.json', '--sphere', '3']);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/--sphere: comes from the case file/);
+  });
+});

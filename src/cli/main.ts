@@ -7,7 +7,8 @@ import { MATERIALS } from '../optics/index.ts';
 import { FIT_HELP, runFit } from './fit.ts';
 import { LIMITS_HELP, runLimits } from './limits.ts';
 import { NEAR_HELP, runNear } from './near.ts';
-import { SWEEP_HELP, runSweep } from './sweep.ts';
+import { sweepRowsParallel } from './parallel.ts';
+import { SWEEP_HELP, formatSweep, planSweep, runSweep } from './sweep.ts';
 import { TRACE_HELP, runTrace } from './trace.ts';
 
 const MAIN_HELP = `decentra: exact prism along the line of sight through a thick spectacle lens.
@@ -61,3 +62,19 @@ export function run(argv: readonly string[]): { out: string; code: number; err?:
 }
 
 export { TRACE_HELP, SWEEP_HELP, NEAR_HELP, LIMITS_HELP, FIT_HELP };
+
+/**
+ * The bin's entry: as run(), but long sweeps use all cores and show progress. `bundleUrl` is
+ * the built file itself, which the workers load.
+ */
+export async function runAsync(argv: readonly string[], bundleUrl: URL): Promise<{ out: string; code: number; err?: string }> {
+  if (argv[0] !== 'sweep') return run(argv);
+  try {
+    const plan = planSweep(argv.slice(1));
+    if (!plan) return { out: SWEEP_HELP, code: 0 };
+    return { out: formatSweep(plan, await sweepRowsParallel(plan, bundleUrl)), code: 0 };
+  } catch (e) {
+    if (e instanceof InputError) return { out: '', code: 2, err: `decentra sweep: ${e.message}` };
+    throw e;
+  }
+}

@@ -4,7 +4,7 @@
  * thickness rules; each decentration is traced exactly.
  */
 import { InputError, inRange, readNumber } from '../case/input.ts';
-import { type Labeller, type LensForm, LIMITS, buildLens, readEye, readLensForm } from '../case/lensCase.ts';
+import { type Labeller, type LensForm, LIMITS, type RawFields, buildLens, readEye, readLensForm } from '../case/lensCase.ts';
 import { type Lens, fourAnswers, isFailure } from '../optics/index.ts';
 import { LENS_FLAGS, flagOf, parseArgs } from './args.ts';
 import { csvCell } from './format.ts';
@@ -49,9 +49,23 @@ export function readRange(flag: string, raw: string | undefined, quantity: 'powe
   return Array.from({ length: n }, (_, i) => Number((a + i * s).toFixed(dec)));
 }
 
-export function runSweep(argv: readonly string[]): string {
+export type SweepRow = Record<string, number | string | null>;
+
+/** A validated sweep: everything needed to compute any subset of its rows. */
+export interface SweepPlan {
+  fields: RawFields;
+  powers: number[];
+  decs: number[];
+  dirDeg: number;
+  cr: number;
+  eye: 'R' | 'L';
+  format: 'csv' | 'json';
+}
+
+/** Read and check the flags; null for --help. */
+export function planSweep(argv: readonly string[]): SweepPlan | null {
   const args = parseArgs(argv, SWEEP_FLAGS);
-  if (args.switches.has('help')) return SWEEP_HELP;
+  if (args.switches.has('help')) return null;
   if (args.positional.length) throw new InputError(args.positional[0]!, 'unexpected argument (flags start with --)');
   const powers = readRange('--power', args.values.get('power'), 'power');
   for (const p of powers) inRange('--power', p, LIMITS.sphere);
@@ -64,13 +78,18 @@ export function runSweep(argv: readonly string[]): string {
   const f = rawFields(args);
   const cr = f.cr === undefined ? 27 : inRange('--cr', readNumber('--cr', f.cr, 'length'), LIMITS.cr);
   const eye = f.eye === undefined ? 'R' : readEye('--eye', f.eye);
-  // validate the family once (with the first power), then per power
-  const label: Labeller = flagOf;
-  readLensForm({ ...f, sphere: powers[0] }, label);
-  const ux = Math.cos((dirDeg * Math.PI) / 180), uy = Math.sin((dirDeg * Math.PI) / 180);
+  // validate the family once (with the first power); each power is checked again when built
+  readLensForm({ ...f, sphere: powers[0] }, flagOf);
+  return { fields: f, powers, decs, dirDeg, cr, eye, format };
+}
 
-  const rows: Record<string, number | string | null>[] = [];
-  for (const p of powers) {
+/** The rows of some of the plan's powers (all by default), in order. */
+export function sweepRows(plan: SweepPlan, powers = plan.powers, onPower?: (done: number) => void): SweepRow[] {
+  const { fields: f, decs, dirDeg, cr, eye } = plan;
+  const label: Labeller = flagOf;
+  const ux = Math.cos((dirDeg * Math.PI) / 180), uy = Math.sin((dirDeg * Math.PI) / 180);
+  const rows: SweepRow[] = [];
+  powers.forEach((p, i) => {
     const form: LensForm = readLensForm({ ...f, sphere: p }, label);
     let lens: Lens | null = null;
     let note = '';
@@ -81,7 +100,7 @@ export function runSweep(argv: readonly string[]): string {
       note = e.message;
     }
     for (const d of decs) {
-      const row: Record<string, number | string | null> = {
+      const row: SweepRow = {
         power_D: p, decentration_mm: d, front_D: lens ? lens.frontPowers[0] : null, ct_mm: lens ? lens.ctMm : null,
         prentice: null, paraxial: null, exact: null, focimeter: null, error_prism: null, error_percent: null,
         status: 'lens', note,
@@ -104,10 +123,19 @@ export function runSweep(argv: readonly string[]): string {
       }
       rows.push(row);
     }
-  }
-  if (format === 'json') {
-    return JSON.stringify({ direction: dirDeg, eye, cr, rows });
-  }
+    onPower?.(i + 1);
+  });
+  return rows;
+}
+
+export function formatSweep(plan: SweepPlan, rows: SweepRow[]): string {
+  if (plan.format === 'json') return JSON.stringify({ direction: plan.dirDeg, eye: plan.eye, cr: plan.cr, rows });
   const cols = Object.keys(rows[0]!);
   return [cols.join(','), ...rows.map((r) => cols.map((c) => csvCell(r[c] ?? null)).join(','))].join('\n');
+}
+
+export function runSweep(argv: readonly string[]): string {
+  const plan = planSweep(argv);
+  if (!plan) return SWEEP_HELP;
+  return formatSweep(plan, sweepRows(plan));
 }

@@ -149,9 +149,10 @@ describe('decentra sweep', () => {
   });
 });
 
-describe('the built command', () => {
+describe('the built command (npm ci builds it)', () => {
   const bin = 'bin/decentra.mjs';
-  it.runIf(existsSync('dist-cli/decentra.mjs'))('runs as plain JavaScript and exits 2 with one stderr line on a bad flag', () => {
+  it('exists', () => expect(existsSync('dist-cli/decentra.mjs')).toBe(true));
+  it('runs as plain JavaScript and exits 2 with one stderr line on a bad flag', () => {
     const ok = execFileSync('node', [bin, 'trace', ...CONTRACT], { encoding: 'utf8' });
     expect(JSON.parse(ok).eye).toBe('R');
     const bad = spawnSync('node', [bin, 'trace', '--sphere', '2', '--ct', '-1'], { encoding: 'utf8' });
@@ -173,5 +174,18 @@ describe('decentra trace CASE.json', () => {
     const r = run(['trace', 'examples/anisometropic-reader.json', '--sphere', '3']);
     expect(r.code).toBe(2);
     expect(r.err).toMatch(/--sphere: comes from the case file/);
+  });
+});
+
+describe('long sweeps use all cores', () => {
+  it('the parallel sweep (worker threads) gives exactly the serial rows, in order', async () => {
+    const { pathToFileURL } = await import('node:url');
+    const { runAsync } = await import('../../src/cli/main.ts');
+    const args = ['sweep', '--material', 'resin-1.60', '--power', '4:12:0.5', '--decentration', '0:20:0.1'];
+    const serial = run(args).out;
+    const parallel = await runAsync(args, pathToFileURL('dist-cli/decentra.mjs'));
+    expect(parallel.code).toBe(0);
+    expect(parallel.out).toBe(serial);
+    expect(serial.split('\n')).toHaveLength(1 + 17 * 201);
   });
 });

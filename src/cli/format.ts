@@ -60,3 +60,15 @@ export function csvCell(v: number | string | null): string {
   if (typeof v === 'number') return Number.isFinite(v) ? String(v) : '';
   return /[",\n]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v;
 }
+
+/** The readable table of the four answers (and the focimeter's first-order value, if asked). */
+export function answersTable(r: FourAnswers, withFirstOrderFocimeter = true): string {
+  return table([
+    ['answer', 'horizontal', 'vertical', 'resultant'],
+    ["Prentice's rule", ...answerCells(r.prentice)],
+    ['first-order thick lens', ...answerCells(r.paraxial)],
+    ['exact, line of sight', ...answerCells(r.exact)],
+    ['focimeter, exact', ...answerCells(r.focimeter)],
+    ...(withFirstOrderFocimeter ? [['focimeter, first order', ...answerCells(r.focimeterFirstOrder)]] : []),
+  ]);
+}

@@ -3,7 +3,7 @@ import { InputError, inRange, readNumber } from '../case/input.ts';
 import { LIMITS, readTraceCase } from '../case/lensCase.ts';
 import { Placement, fourAnswersPlaced, solveFixation } from '../optics/index.ts';
 import { LENS_FLAGS, flagOf, parseArgs } from './args.ts';
-import { CAUTION, answerCells, fourAnswersJson, table } from './format.ts';
+import { CAUTION, answersTable, fourAnswersJson } from './format.ts';
 import { rawFields } from './trace.ts';
 
 export const NEAR_HELP = `decentra near: where the eye looks through the lens at a target, and the prism there.
@@ -68,13 +68,7 @@ export function runNear(argv: readonly string[]): string {
     `Target (${tx}, ${ty}, ${tz}) mm from the centre of rotation; ${tc.eye === 'R' ? 'right' : 'left'} eye.`,
     `Visual point: ${fix.cx.toFixed(2)} mm x, ${fix.cy.toFixed(2)} mm y from the optical centre (found in ${fix.iterations} steps).`,
     '',
-    table([
-      ['answer', 'horizontal', 'vertical', 'resultant'],
-      ["Prentice's rule", ...answerCells(r.prentice)],
-      ['first-order thick lens', ...answerCells(r.paraxial)],
-      ['exact, line of sight', ...answerCells(r.exact)],
-      ['focimeter, exact', ...answerCells(r.focimeter)],
-    ]),
+    answersTable(r, false),
     '',
     CAUTION,
   ].join('\n');

@@ -4,7 +4,7 @@ import { type FieldKey, type RawFields, readEye, readTraceCase } from '../case/l
 import { loadCaseFile } from './fit.ts';
 import { fourAnswers, isFailure } from '../optics/index.ts';
 import { type ParsedArgs, LENS_FLAGS, flagOf, parseArgs } from './args.ts';
-import { CAUTION, answerCells, fourAnswersJson, signed, table } from './format.ts';
+import { CAUTION, answersTable, fourAnswersJson, signed } from './format.ts';
 
 export const TRACE_HELP = `decentra trace: prism at one visual point of a thick lens, four ways.
 
@@ -88,14 +88,7 @@ export function runTrace(argv: readonly string[]): string {
     `Visual point ${tc.xMm.toFixed(2)} mm x, ${tc.yMm.toFixed(2)} mm y from the optical centre ` +
       `(${Math.hypot(tc.xMm, tc.yMm).toFixed(2)} mm)`,
     '',
-    table([
-      ['answer', 'horizontal', 'vertical', 'resultant'],
-      ["Prentice's rule", ...answerCells(r.prentice)],
-      ['first-order thick lens', ...answerCells(r.paraxial)],
-      ['exact, line of sight', ...answerCells(r.exact)],
-      ['focimeter, exact', ...answerCells(r.focimeter)],
-      ['focimeter, first order', ...answerCells(r.focimeterFirstOrder)],
-    ]),
+    answersTable(r),
     '',
     r.error
       ? `Prentice error: ${signed(r.error.prism, 3)} Δ` +

@@ -63,11 +63,9 @@ export function traceLineOfSight(
 /** traceLineOfSight's work: start (out.sx..sz) and visual point (out.bx, out.by) in `out`. */
 export function lineOfSight(lens: Lens, out: LineTrace): RayStatus {
   const h = _hit;
+  const st = backPoint(lens, out);
+  if (st !== RayStatus.ok) return st;
   const cx = out.bx, cy = out.by;
-  if (cx * cx + cy * cy > lens.radiusMm * lens.radiusMm) return fail(out, RayStatus.beyondEdge);
-  h.x = cx; h.y = cy;
-  if (!lens.back.fillPoint(h)) return fail(out, RayStatus.miss);
-  out.bz = h.z;
   let ax = cx - out.sx, ay = cy - out.sy, az = h.z - out.sz;
   const len = Math.sqrt(ax * ax + ay * ay + az * az);
   if (!(az > 0)) return fail(out, RayStatus.geometry);
@@ -91,16 +89,24 @@ export function traceFocimeter(lens: Lens, cx: number, cy: number, out: LineTrac
 /** traceFocimeter's work, reading the point from (out.bx, out.by). */
 export function focimeter(lens: Lens, out: LineTrace): RayStatus {
   const h = _hit;
+  const st = backPoint(lens, out);
+  if (st !== RayStatus.ok) return st;
   const cx = out.bx, cy = out.by;
-  if (cx * cx + cy * cy > lens.radiusMm * lens.radiusMm) return fail(out, RayStatus.beyondEdge);
-  h.x = cx; h.y = cy;
-  if (!lens.back.fillPoint(h)) return fail(out, RayStatus.miss);
-  out.bz = h.z;
   out.ax = h.nx; out.ay = h.ny; out.az = h.nz;
   out.gx = h.nx; out.gy = h.ny; out.gz = h.nz;
   // a start point 10 mm behind along the normal, for drawing only
   out.sx = cx - 10 * h.nx; out.sy = cy - 10 * h.ny; out.sz = h.z - 10 * h.nz;
   return throughFront(lens, out);
+}
+
+/** The back-surface point at (out.bx, out.by): out.bz, and its normal in _hit. */
+function backPoint(lens: Lens, out: LineTrace): RayStatus {
+  const cx = out.bx, cy = out.by;
+  if (cx * cx + cy * cy > lens.radiusMm * lens.radiusMm) return fail(out, RayStatus.beyondEdge);
+  _hit.x = cx; _hit.y = cy;
+  if (!lens.back.fillPoint(_hit)) return fail(out, RayStatus.miss);
+  out.bz = _hit.z;
+  return RayStatus.ok;
 }
 
 /** From the back-surface point (out.b*) along out.g* inside the glass, out through the front. */

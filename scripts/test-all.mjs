@@ -15,6 +15,13 @@ if (run('npm', ['run', '--silent', 'typecheck']) !== 0) {
   console.error('type-check failed');
 }
 
+// the generated tables in docs/prentice-error.md must match the engine as it is now
+if (run('npx', ['tsx', 'scripts/error-table.ts', '--check']) === 0) passed += 1;
+else {
+  failed += 1;
+  console.error('docs/prentice-error.md is out of date: run npx tsx scripts/error-table.ts');
+}
+
 const vitestJson = 'test-results/vitest.json';
 const v = run('npx', ['vitest', 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${vitestJson}`]);
 if (existsSync(vitestJson)) {

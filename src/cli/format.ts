@@ -8,7 +8,9 @@ export const CAUTION =
 
 /** The DESIGN §9 shape of one answer: the described prism, or the failure. */
 export function answerJson(a: Answer): object {
-  if (isFailure(a)) return { failure: a.failure, message: a.message };
+  // DESIGN §9 names three failures; a ray that leaves through the lens edge has no
+  // thickness of lens behind its exit point, so it is reported as a geometry failure
+  if (isFailure(a)) return { failure: a.failure === 'edge' ? 'geometry' : a.failure, message: a.message };
   return {
     x: a.x, y: a.y, magnitude: a.magnitude, baseAngle: a.baseAngle,
     horizontal: { amount: a.horizontal.amount, base: a.horizontal.base },

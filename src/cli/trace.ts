@@ -22,6 +22,7 @@ Prescription
 Lens form
   --index n           refractive index, or
   --material NAME     a material by generic name (default resin-1.50; see decentra materials)
+  --abbe V            Abbe number, for colour fringes (default: the material's)
   --front D           true front surface power in the lens material, or
   --base D            nominal front curve at --tool-index (default 1.53), or
   --front-rule RULE   vogel (default) or steps:POWER=FRONT,... (front chosen per power)

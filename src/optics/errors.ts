@@ -25,7 +25,7 @@ const FAILURE_MESSAGES: Record<FailureName, string> = {
   miss: 'the line of sight misses a lens surface (the surface does not extend that far)',
   tir: 'total internal reflection inside the lens: no ray leaves along this line of sight',
   geometry: 'the lens has no thickness at this point (front and back surfaces cross)',
-  edge: 'the point lies beyond the lens edge',
+  edge: 'the line of sight falls outside the lens diameter (at the visual point or where it leaves the front surface)',
 };
 
 export function failureMessage(status: RayStatus): string {

@@ -9,6 +9,7 @@
  */
 import { OpticsError } from './errors.ts';
 import { type Mat2, powerMatrix, add, mul, scale } from './powerMatrix.ts';
+import type { IndexRatio } from './refract.ts';
 import { SagEval, Surface, SurfaceKind, type ToricForm } from './surface.ts';
 
 export interface LensSpec {
@@ -35,6 +36,9 @@ export class Lens {
   readonly front: Surface;
   readonly back: Surface;
   readonly index: number;
+  /** η for refraction into the glass (1/n) and out of it (n), as objects for the per-ray path */
+  readonly intoGlass: IndexRatio;
+  readonly outOfGlass: IndexRatio;
   readonly ctMm: number;
   /** semi-diameter, mm; Infinity when no diameter is given */
   readonly radiusMm: number;
@@ -52,6 +56,8 @@ export class Lens {
     this.spec = Object.freeze({ ...spec });
     const { sphereD, cylD, axisDeg, index: n, frontD, ctMm } = spec;
     this.index = n;
+    this.intoGlass = { eta: 1 / n };
+    this.outOfGlass = { eta: n };
     this.ctMm = ctMm;
     const tm = ctMm / 1000; // m
     const r = n - 1;
@@ -105,14 +111,14 @@ export class Lens {
    * Radius within which both surfaces exist and the lens has positive thickness, found by a
    * scan of meridians and kept 0.5 mm on the safe side; traces skip the thickness check of
    * their exit point inside it (a speed-up only: outside it the exact check runs).
-   * Computed on first use.
+   * Computed on first use (negative until then).
    */
-  get solidRadiusMm(): number {
-    if (this._solidRadiusMm < 0) this._solidRadiusMm = this.scanSolidRadius();
-    return this._solidRadiusMm;
-  }
+  solidRadiusMm = -1.5;
 
-  private _solidRadiusMm = -1.5;
+  /** Fill solidRadiusMm (negative until then). A method without arguments or result: nothing is boxed. */
+  findSolidRadius(): void {
+    this.solidRadiusMm = this.scanSolidRadius();
+  }
 
   private scanSolidRadius(): number {
     const step = 0.25;
@@ -165,7 +171,10 @@ export class Lens {
   withIndex(index: number): Lens {
     const copy = Object.create(Lens.prototype) as Lens;
     Object.assign(copy, this);
-    (copy as { index: number }).index = index;
+    const w = copy as { index: number; intoGlass: IndexRatio; outOfGlass: IndexRatio };
+    w.index = index;
+    w.intoGlass = { eta: 1 / index };
+    w.outOfGlass = { eta: index };
     return copy;
   }
 

@@ -253,8 +253,11 @@ export class Surface {
     const q = 1 + e * k * z; // = sqrt(1 - (1+k)κ²r²) on the vertex branch
     if (q < 0) return false;
     let nx = k * x, ny = k * y, nz = q;
-    const inv = 1 / Math.sqrt(nx * nx + ny * ny + nz * nz);
-    nx *= inv; ny *= inv; nz *= inv;
+    if (this.kind !== SurfaceKind.sphere) {
+      // a sphere's (κx, κy, 1 + κz) is of unit length on the surface; a conic's is not
+      const inv = 1 / Math.sqrt(nx * nx + ny * ny + nz * nz);
+      nx *= inv; ny *= inv; nz *= inv;
+    }
     hit.x = x; hit.y = y; hit.z = z; hit.t = t;
     hit.nx = nx; hit.ny = ny; hit.nz = nz;
     return true;
@@ -272,6 +275,20 @@ export class Surface {
 
   /** pointAt's work, reading (hit.x, hit.y). */
   fillPoint(hit: Hit): boolean {
+    if (this.kind === SurfaceKind.sphere) {
+      // a sphere's normal (κx, κy, q) is already of unit length: κ²r² + q² = 1
+      const k = this.curvature, x = hit.x, y = hit.y;
+      const r2 = x * x + y * y;
+      const q2 = 1 - k * k * r2;
+      if (!(q2 > 0) && k !== 0) return false;
+      const q = Math.sqrt(q2);
+      hit.z = this.vertexZ - (k * r2) / (1 + q);
+      hit.t = 0;
+      hit.nx = k * x;
+      hit.ny = k * y;
+      hit.nz = q;
+      return true;
+    }
     const g = _sag;
     g.x = hit.x;
     g.y = hit.y;

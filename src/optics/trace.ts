@@ -13,7 +13,7 @@
  */
 import { RayStatus } from './errors.ts';
 import type { Lens } from './lens.ts';
-import { refract } from './refract.ts';
+import { refractVec } from './refract.ts';
 import { Hit, Ray, SagEval } from './surface.ts';
 
 /** Result of one trace; reuse one instance per loop. */
@@ -42,6 +42,7 @@ const _hit = new Hit();
 const _sag = new SagEval();
 const _ray = new Ray();
 const _dir = { x: 0, y: 0, z: 0 };
+const _base = { x: 0, y: 0 };
 
 /**
  * Exact line of sight: the ray from the centre of rotation (crX, crY, crZ) through the point
@@ -69,9 +70,11 @@ export function lineOfSight(lens: Lens, out: LineTrace): RayStatus {
   let ax = cx - out.sx, ay = cy - out.sy, az = h.z - out.sz;
   const len = Math.sqrt(ax * ax + ay * ay + az * az);
   if (!(az > 0)) return fail(out, RayStatus.geometry);
-  ax /= len; ay /= len; az /= len;
+  const inv = 1 / len;
+  ax *= inv; ay *= inv; az *= inv;
   out.ax = ax; out.ay = ay; out.az = az;
-  if (!refract(ax, ay, az, h.nx, h.ny, h.nz, 1, lens.index, _dir)) return fail(out, RayStatus.tir);
+  _dir.x = ax; _dir.y = ay; _dir.z = az;
+  if (!refractVec(_dir, h, lens.intoGlass)) return fail(out, RayStatus.tir);
   out.gx = _dir.x; out.gy = _dir.y; out.gz = _dir.z;
   return throughFront(lens, out);
 }
@@ -112,19 +115,23 @@ function backPoint(lens: Lens, out: LineTrace): RayStatus {
 /** From the back-surface point (out.b*) along out.g* inside the glass, out through the front. */
 function throughFront(lens: Lens, out: LineTrace): RayStatus {
   const h = _hit;
-  _ray.set(out.bx, out.by, out.bz, out.gx, out.gy, out.gz);
-  if (!lens.front.intersect(_ray, h)) return fail(out, RayStatus.miss);
+  const ray = _ray;
+  ray.px = out.bx; ray.py = out.by; ray.pz = out.bz;
+  ray.dx = out.gx; ray.dy = out.gy; ray.dz = out.gz;
+  if (!lens.front.intersect(ray, h)) return fail(out, RayStatus.miss);
   if (!(h.t > 0)) return fail(out, RayStatus.geometry);
   const fx = h.x, fy = h.y, fz = h.z;
   if (fx * fx + fy * fy > lens.radiusMm * lens.radiusMm) return fail(out, RayStatus.beyondEdge);
   out.fx = fx; out.fy = fy; out.fz = fz;
   // the exit point must lie where the lens has thickness: the back surface behind it
+  if (lens.solidRadiusMm < 0) lens.findSolidRadius();
   const solid = lens.solidRadiusMm;
   if (fx * fx + fy * fy >= solid * solid) {
     _sag.x = fx; _sag.y = fy;
     if (!lens.back.evalSag(_sag) || !(fz > lens.back.vertexZ - _sag.sag)) return fail(out, RayStatus.geometry);
   }
-  if (!refract(out.gx, out.gy, out.gz, h.nx, h.ny, h.nz, lens.index, 1, _dir)) return fail(out, RayStatus.tir);
+  _dir.x = out.gx; _dir.y = out.gy; _dir.z = out.gz;
+  if (!refractVec(_dir, h, lens.outOfGlass)) return fail(out, RayStatus.tir);
   out.ox = _dir.x; out.oy = _dir.y; out.oz = _dir.z;
   return setPrism(out);
 }
@@ -140,13 +147,15 @@ function setPrism(out: LineTrace): RayStatus {
   const cos = ax * bx + ay * by + az * bz;
   if (!(cos > 0)) return fail(out, RayStatus.geometry);
   out.prism = (100 * sin) / cos;
-  splitPrism(out, bx - ax, by - ay);
+  _base.x = bx - ax; _base.y = by - ay;
+  splitPrism(out);
   out.status = RayStatus.ok;
   return RayStatus.ok;
 }
 
-/** Components of out.prism along the base direction (hx, hy). */
-function splitPrism(out: LineTrace, hx: number, hy: number): void {
+/** Components of out.prism along the base direction in _base. */
+function splitPrism(out: LineTrace): void {
+  const hx = _base.x, hy = _base.y;
   const h = Math.sqrt(hx * hx + hy * hy);
   const mag = out.prism;
   if (h === 0 || mag === 0) {
@@ -163,7 +172,9 @@ function splitPrism(out: LineTrace, hx: number, hy: number): void {
  */
 export function setPrismComponents(out: LineTrace, r: Float64Array): void {
   const dx = out.ox - out.ax, dy = out.oy - out.ay, dz = out.oz - out.az;
-  splitPrism(out, r[0]! * dx + r[1]! * dy + r[2]! * dz, r[3]! * dx + r[4]! * dy + r[5]! * dz);
+  _base.x = r[0]! * dx + r[1]! * dy + r[2]! * dz;
+  _base.y = r[3]! * dx + r[4]! * dy + r[5]! * dz;
+  splitPrism(out);
 }
 
 function fail(out: LineTrace, status: RayStatus): RayStatus {

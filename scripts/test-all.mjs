@@ -32,7 +32,7 @@ if (existsSync(vitestJson)) {
 }
 if (v !== 0) ok = false;
 
-const hasE2e = existsSync('tests/e2e') && readdirSync('tests/e2e').some((f) => f.endsWith('.spec.ts'));
+const hasE2e = existsSync('tests/e2e') && readdirSync('tests/e2e').some((f) => f.endsWith('.e2e.ts'));
 if (hasE2e && process.env.DECENTRA_SKIP_E2E !== '1') {
   const pwJson = 'test-results/playwright.json';
   const p = run('npx', ['playwright', 'test', '--reporter=list,json'], { PLAYWRIGHT_JSON_OUTPUT_NAME: pwJson });

@@ -7,6 +7,7 @@ import { MATERIALS } from '../optics/index.ts';
 import { FIT_HELP, runFit } from './fit.ts';
 import { LIMITS_HELP, runLimits } from './limits.ts';
 import { NEAR_HELP, runNear } from './near.ts';
+import { runReport } from './report.ts';
 import { sweepRowsParallel } from './parallel.ts';
 import { SWEEP_HELP, formatSweep, planSweep, runSweep } from './sweep.ts';
 import { TRACE_HELP, runTrace } from './trace.ts';
@@ -21,6 +22,7 @@ Commands
   near        the visual point and prism for a target in front of the eye (exact trace)
   limits      the largest decentration within a prism tolerance, exactly and by Prentice
   fit         a whole binocular case from a case file: both eyes, net prism, verdicts
+  report      a one-page printable summary of a case file for a referring clinician (HTML)
   materials   the lens materials known by name
   help        this text; "decentra <command> --help" explains a command
 
@@ -45,6 +47,8 @@ export function run(argv: readonly string[]): { out: string; code: number; err?:
         return { out: runLimits(rest), code: 0 };
       case 'fit':
         return { out: runFit(rest), code: 0 };
+      case 'report':
+        return { out: runReport(rest), code: 0 };
       case 'materials':
         return { out: materials(), code: 0 };
       case undefined:

@@ -189,3 +189,45 @@ describe('long sweeps use all cores', () => {
     expect(serial.split('\n')).toHaveLength(1 + 17 * 201);
   });
 });
+
+describe('decentra near', () => {
+  it('solves the visual point for a target and gives the four answers there', () => {
+    const r = run(['near', '--sphere', '-4', '--index', '1.6', '--front', '2', '--ct', '2', '--at', '0,-150,400', '--json']);
+    expect(r.code).toBe(0);
+    const n = JSON.parse(r.out);
+    expect(Object.keys(n)).toEqual(expect.arrayContaining(['visualPoint', 'prentice', 'paraxial', 'exact', 'focimeter', 'error']));
+    // the straight line from the centre of rotation to the target crosses the back vertex
+    // plane 27·150/400 = 10.1 mm below. Below its centre a minus lens is base down; light is
+    // bent towards the base, so the target's image moves up (towards the apex) and the eye
+    // turns down less: minus lenses reduce ocular rotation, a textbook fact (e.g. Jalie,
+    // from memory). The visual point is therefore less than 10.1 mm below.
+    expect(n.visualPoint.y).toBeGreaterThan(-27 * 150 / 400);
+    expect(n.visualPoint.y).toBeLessThan(-7);
+    // the answers at that point equal a trace at the same visual point
+    const t = traceJson(['--sphere', '-4', '--index', '1.6', '--front', '2', '--ct', '2', '--x', String(n.visualPoint.x), '--y', String(n.visualPoint.y), '--json']);
+    expect(n.exact.y).toBeCloseTo(t.exact.y, 12);
+    expect(n.exact.vertical.base).toBe('down');
+  });
+  it('a target behind the eye is a one-line error naming --at', () => {
+    const r = run(['near', '--sphere', '2', '--at', '0,0,-100']);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/--at: the target must lie in front of the lens/);
+  });
+});
+
+describe('decentra limits', () => {
+  it('Prentice limit is P/F (Prentice 1890); exact is smaller for a thick high-plus lens', () => {
+    const r = run(['limits', '--sphere', '10', '--material', 'resin-1.60', '--front', '16', '--ct', '9.5', '--max-prism', '0.5', '--json']);
+    expect(r.code).toBe(0);
+    const j = JSON.parse(r.out);
+    expect(j.prentice).toBeCloseTo(0.5, 12); // 0.5 Δ / 10 D = 0.05 cm
+    expect(j.exact).toBeLessThan(j.prentice);
+    expect(j.difference).toBeCloseTo(j.prentice - j.exact, 12);
+  });
+  it('a table over a power range', () => {
+    const r = run(['limits', '--power', '6:8:1', '--material', 'resin-1.60', '--max-prism', '0.5', '--format', 'json']);
+    const j = JSON.parse(r.out);
+    expect(j.rows.map((x: any) => x.power)).toEqual([6, 7, 8]);
+    for (const row of j.rows) expect(row.prentice).toBeCloseTo(0.5 / row.power * 10, 12);
+  });
+});

@@ -3,7 +3,9 @@
  * ("--x -5" takes -5 as the value). Unknown, repeated or value-less flags are errors that
  * name the flag. No library: the CLI must start fast (it is called thousands of times).
  */
+import { LENS_FLAGS } from '../case/flags.ts';
 import { InputError } from '../case/input.ts';
+import type { FieldKey, RawFields } from '../case/lensCase.ts';
 
 export interface FlagSpec {
   /** flags that take a value */
@@ -53,16 +55,14 @@ export function parseArgs(argv: readonly string[], spec: FlagSpec): ParsedArgs {
   return { values, switches, positional };
 }
 
-/** The engine field each lens flag fills (src/case/lensCase.ts FieldKey). */
-export const LENS_FLAGS = {
-  sphere: 'sphere', cyl: 'cyl', axis: 'axis', index: 'index', material: 'material', abbe: 'abbe',
-  front: 'front', base: 'base', 'tool-index': 'toolIndex', 'front-rule': 'frontRule', ct: 'ct',
-  'min-edge': 'minEdge', 'min-ct': 'minCt', diameter: 'diameter', 'front-k': 'frontK', 'back-k': 'backK',
-  'cyl-on': 'cylOn', toric: 'toric', cr: 'cr', eye: 'eye',
-} as const;
+export { LENS_FLAGS, flagOf } from '../case/flags.ts';
 
-/** Flag name of a field key, for error messages. */
-export function flagOf(key: string): string {
-  for (const [flag, k] of Object.entries(LENS_FLAGS)) if (k === key) return `--${flag}`;
-  return `--${key}`;
+/** The lens fields given as flags (src/case/lensCase.ts FieldKey -> raw text). */
+export function rawFields(args: ParsedArgs): RawFields {
+  const f: RawFields = {};
+  for (const [flag, key] of Object.entries(LENS_FLAGS)) {
+    const v = args.values.get(flag);
+    if (v !== undefined) f[key as FieldKey] = v;
+  }
+  return f;
 }

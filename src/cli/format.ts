@@ -56,12 +56,7 @@ export function table(rows: string[][]): string {
   return rows.map((r) => r.map((c, i) => c + ' '.repeat(widths[i]! - [...c].length)).join('  ').trimEnd()).join('\n');
 }
 
-/** A CSV cell: numbers as they are (finite only), text quoted when needed. */
-export function csvCell(v: number | string | null): string {
-  if (v === null) return '';
-  if (typeof v === 'number') return Number.isFinite(v) ? String(v) : '';
-  return /[",\n]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v;
-}
+export { csvCell } from '../case/batch.ts';
 
 /** The readable table of the four answers (and the focimeter's first-order value, if asked). */
 export function answersTable(r: FourAnswers, withFirstOrderFocimeter = true): string {

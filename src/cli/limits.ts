@@ -1,11 +1,10 @@
 /** `decentra limits`: the largest decentration that keeps the prism at the eye within a tolerance. */
+import { type BatchPlan, type Row, batchRows, formatBatch, limitsPowerRow } from '../case/batch.ts';
 import { InputError, inRange, readNumber } from '../case/input.ts';
-import { LIMITS, buildLens, readLensForm } from '../case/lensCase.ts';
-import { decentrationLimit } from '../optics/index.ts';
-import { LENS_FLAGS, flagOf, parseArgs } from './args.ts';
-import { CAUTION, csvCell, table } from './format.ts';
+import { LIMITS, buildLens, readEye, readLensForm } from '../case/lensCase.ts';
+import { LENS_FLAGS, flagOf, parseArgs, rawFields } from './args.ts';
+import { CAUTION, table } from './format.ts';
 import { readRange } from './sweep.ts';
-import { rawFields } from './trace.ts';
 
 export const LIMITS_HELP = `decentra limits: how far a lens may be decentred before the prism leaves a tolerance.
 
@@ -41,32 +40,27 @@ export function runLimits(argv: readonly string[]): string {
   const powerRange = args.values.get('power');
   if (powerRange !== undefined && f.sphere !== undefined) throw new InputError('--power', 'give either --sphere or --power, not both');
   const powers = powerRange === undefined ? null : readRange('--power', powerRange, 'power');
-  const rows = (powers ?? [undefined]).map((p) => {
-    const form = readLensForm(p === undefined ? f : { ...f, sphere: p }, flagOf);
-    if (powers) inRange('--power', form.sphereD, LIMITS.sphere);
-    let lens;
-    try {
-      lens = buildLens(form, flagOf);
-    } catch (e) {
-      if (powers && e instanceof InputError) return { power: form.sphereD, exact: null, prentice: null, paraxial: null, difference: null, reason: e.message };
-      throw e;
-    }
-    const r = decentrationLimit(lens, cr, dir, maxPrism);
-    const reason = r.exactReason === 'ok' ? 'ok' : r.exactReason === 'never-reached'
-      ? `the exact prism stays within ${maxPrism} Δ out to ${r.searchedToMm} mm`
-      : `the exact trace fails beyond ${r.searchedToMm} mm`;
-    const exact = r.exactReason === 'ok' ? r.exactMm : null;
-    return {
-      power: form.sphereD, front: lens.frontPowers[0], ct: lens.ctMm, exact, prentice: r.prenticeMm, paraxial: r.paraxialMm,
-      difference: exact !== null && r.prenticeMm !== null ? r.prenticeMm - exact : null, reason,
-    };
-  });
+  if (powers) for (const p of powers) inRange('--power', p, LIMITS.sphere);
+  const format = args.values.get('format') ?? (args.switches.has('json') ? 'json' : 'csv');
+  if (format !== 'csv' && format !== 'json') throw new InputError('--format', `must be csv or json, got '${format}'`);
+  const eye = f.eye === undefined ? 'R' : readEye('--eye', f.eye);
+  const plan: BatchPlan = { kind: 'limits', fields: f, powers: powers ?? [], decs: [], dirDeg: dir, cr, eye, maxPrism, format };
+  let rows: Row[];
+  if (powers) {
+    readLensForm({ ...f, sphere: powers[0] }, flagOf);
+    rows = batchRows(plan);
+  } else {
+    // one lens: a lens that cannot be made is an error here, not a row
+    const form = readLensForm(f, flagOf);
+    buildLens(form, flagOf);
+    rows = [limitsPowerRow(plan, form.sphereD)];
+  }
   if (!powers) {
     const r = rows[0]!;
     if (args.switches.has('json')) {
       return JSON.stringify({ exact: r.exact, prentice: r.prentice, paraxial: r.paraxial, difference: r.difference, maxPrism, direction: dir, reason: r.reason });
     }
-    const mm = (v: number | null | undefined) => (v === null || v === undefined ? '-' : `${v.toFixed(2)} mm`);
+    const mm = (v: unknown) => (typeof v === 'number' ? `${v.toFixed(2)} mm` : '-');
     return [
       `Largest decentration along ${dir}° with at most ${maxPrism} Δ at the eye:`,
       table([
@@ -79,10 +73,5 @@ export function runLimits(argv: readonly string[]): string {
       CAUTION,
     ].filter(Boolean).join('\n');
   }
-  const format = args.values.get('format') ?? (args.switches.has('json') ? 'json' : 'csv');
-  if (format !== 'csv' && format !== 'json') throw new InputError('--format', `must be csv or json, got '${format}'`);
-  if (format === 'json') return JSON.stringify({ maxPrism, direction: dir, cr, rows });
-  const cols = ['power', 'front', 'ct', 'exact', 'paraxial', 'prentice', 'difference', 'reason'];
-  const head = ['power_D', 'front_D', 'ct_mm', 'exact_mm', 'paraxial_mm', 'prentice_mm', 'prentice_minus_exact_mm', 'note'];
-  return [head.join(','), ...rows.map((r) => cols.map((c) => csvCell((r as Record<string, number | string | null>)[c] ?? null)).join(','))].join('\n');
+  return formatBatch(plan, rows);
 }

@@ -2,9 +2,8 @@
 import { InputError, inRange, readNumber } from '../case/input.ts';
 import { LIMITS, readTraceCase } from '../case/lensCase.ts';
 import { Placement, fourAnswersPlaced, solveFixation } from '../optics/index.ts';
-import { LENS_FLAGS, flagOf, parseArgs } from './args.ts';
+import { LENS_FLAGS, flagOf, parseArgs, rawFields } from './args.ts';
 import { CAUTION, answersTable, fourAnswersJson } from './format.ts';
-import { rawFields } from './trace.ts';
 
 export const NEAR_HELP = `decentra near: where the eye looks through the lens at a target, and the prism there.
 

@@ -1,14 +1,13 @@
 /**
  * `decentra sweep`: a grid over back vertex power and decentration for a lens family, as CSV
  * (default) or JSON. Each power gets its own lens from the family's front-curve and
- * thickness rules; each decentration is traced exactly.
+ * thickness rules; each decentration is traced exactly. The rows come from src/case/batch.ts,
+ * which the app's export uses too.
  */
+import { type BatchPlan, type Row, batchRows, formatBatch, rangeValues } from '../case/batch.ts';
 import { InputError, inRange, readNumber } from '../case/input.ts';
-import { type Labeller, type LensForm, LIMITS, type RawFields, buildLens, readEye, readLensForm } from '../case/lensCase.ts';
-import { type Lens, fourAnswers, isFailure } from '../optics/index.ts';
-import { LENS_FLAGS, flagOf, parseArgs } from './args.ts';
-import { csvCell } from './format.ts';
-import { rawFields } from './trace.ts';
+import { LIMITS, readEye, readLensForm } from '../case/lensCase.ts';
+import { LENS_FLAGS, flagOf, parseArgs, rawFields } from './args.ts';
 
 export const SWEEP_HELP = `decentra sweep: prism over a grid of powers and decentrations for a lens family.
 
@@ -40,27 +39,11 @@ export function readRange(flag: string, raw: string | undefined, quantity: 'powe
   const parts = raw.split(':');
   if (parts.length !== 3) throw new InputError(flag, `must be START:STOP:STEP, got '${raw}'`);
   const [a, b, s] = parts.map((p) => readNumber(flag, p, quantity)) as [number, number, number];
-  if (s === 0 && a !== b) throw new InputError(flag, 'step must not be 0');
-  if (a !== b && Math.sign(b - a) !== Math.sign(s)) throw new InputError(flag, `step ${s} does not lead from ${a} to ${b}`);
-  const n = a === b ? 1 : Math.floor((b - a) / s + 1e-9) + 1;
-  if (n > 100000) throw new InputError(flag, `gives ${n} values; at most 100000`);
-  // round to the step's decimals so that 0.1 steps print as 0.3, not 0.30000000000000004
-  const dec = Math.min(10, Math.max(...[a, b, s].map((v) => (String(v).split('.')[1] ?? '').length)));
-  return Array.from({ length: n }, (_, i) => Number((a + i * s).toFixed(dec)));
+  return rangeValues(flag, a, b, s);
 }
 
-export type SweepRow = Record<string, number | string | null>;
-
-/** A validated sweep: everything needed to compute any subset of its rows. */
-export interface SweepPlan {
-  fields: RawFields;
-  powers: number[];
-  decs: number[];
-  dirDeg: number;
-  cr: number;
-  eye: 'R' | 'L';
-  format: 'csv' | 'json';
-}
+export type SweepPlan = BatchPlan;
+export type SweepRow = Row;
 
 /** Read and check the flags; null for --help. */
 export function planSweep(argv: readonly string[]): SweepPlan | null {
@@ -80,59 +63,15 @@ export function planSweep(argv: readonly string[]): SweepPlan | null {
   const eye = f.eye === undefined ? 'R' : readEye('--eye', f.eye);
   // validate the family once (with the first power); each power is checked again when built
   readLensForm({ ...f, sphere: powers[0] }, flagOf);
-  return { fields: f, powers, decs, dirDeg, cr, eye, format };
+  return { kind: 'sweep', fields: f, powers, decs, dirDeg, cr, eye, maxPrism: 0, format };
 }
 
 /** The rows of some of the plan's powers (all by default), in order. */
 export function sweepRows(plan: SweepPlan, powers = plan.powers, onPower?: (done: number) => void): SweepRow[] {
-  const { fields: f, decs, dirDeg, cr, eye } = plan;
-  const label: Labeller = flagOf;
-  const ux = Math.cos((dirDeg * Math.PI) / 180), uy = Math.sin((dirDeg * Math.PI) / 180);
-  const rows: SweepRow[] = [];
-  powers.forEach((p, i) => {
-    const form: LensForm = readLensForm({ ...f, sphere: p }, label);
-    let lens: Lens | null = null;
-    let note = '';
-    try {
-      lens = buildLens(form, label);
-    } catch (e) {
-      if (!(e instanceof InputError)) throw e;
-      note = e.message;
-    }
-    for (const d of decs) {
-      const row: SweepRow = {
-        power_D: p, decentration_mm: d, front_D: lens ? lens.frontPowers[0] : null, ct_mm: lens ? lens.ctMm : null,
-        prentice: null, paraxial: null, exact: null, focimeter: null, error_prism: null, error_percent: null,
-        status: 'lens', note,
-      };
-      if (lens) {
-        if (Math.abs(d) > lens.radiusMm) {
-          row.status = 'edge';
-          row.note = `beyond the ${2 * lens.radiusMm} mm lens`;
-        } else {
-          const r = fourAnswers(lens, cr, d * ux, d * uy, eye);
-          row.prentice = r.prentice.magnitude;
-          row.paraxial = r.paraxial.magnitude;
-          row.exact = isFailure(r.exact) ? null : r.exact.magnitude;
-          row.focimeter = isFailure(r.focimeter) ? null : r.focimeter.magnitude;
-          row.error_prism = r.error ? r.error.prism : null;
-          row.error_percent = r.error ? r.error.percent : null;
-          row.status = isFailure(r.exact) ? r.exact.failure : 'ok';
-          row.note = isFailure(r.exact) ? r.exact.message : '';
-        }
-      }
-      rows.push(row);
-    }
-    onPower?.(i + 1);
-  });
-  return rows;
+  return batchRows(plan, powers, onPower);
 }
 
-export function formatSweep(plan: SweepPlan, rows: SweepRow[]): string {
-  if (plan.format === 'json') return JSON.stringify({ direction: plan.dirDeg, eye: plan.eye, cr: plan.cr, rows });
-  const cols = Object.keys(rows[0]!);
-  return [cols.join(','), ...rows.map((r) => cols.map((c) => csvCell(r[c] ?? null)).join(','))].join('\n');
-}
+export const formatSweep = formatBatch;
 
 export function runSweep(argv: readonly string[]): string {
   const plan = planSweep(argv);

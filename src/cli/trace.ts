@@ -1,9 +1,9 @@
 /** `decentra trace`: the four answers at one visual point (DESIGN §9). */
 import { InputError } from '../case/input.ts';
-import { type FieldKey, type RawFields, readEye, readTraceCase } from '../case/lensCase.ts';
+import { readEye, readTraceCase } from '../case/lensCase.ts';
 import { loadCaseFile } from './fit.ts';
 import { fourAnswers, isFailure } from '../optics/index.ts';
-import { type ParsedArgs, LENS_FLAGS, flagOf, parseArgs } from './args.ts';
+import { LENS_FLAGS, flagOf, parseArgs, rawFields } from './args.ts';
 import { CAUTION, answersTable, fourAnswersJson, signed } from './format.ts';
 
 export const TRACE_HELP = `decentra trace: prism at one visual point of a thick lens, four ways.
@@ -45,14 +45,6 @@ Output
 
 const TRACE_FLAGS = { values: [...Object.keys(LENS_FLAGS), 'x', 'y'], switches: ['json', 'help'] };
 
-export function rawFields(args: ParsedArgs): RawFields {
-  const f: RawFields = {};
-  for (const [flag, key] of Object.entries(LENS_FLAGS)) {
-    const v = args.values.get(flag);
-    if (v !== undefined) f[key as FieldKey] = v;
-  }
-  return f;
-}
 
 export function runTrace(argv: readonly string[]): string {
   const args = parseArgs(argv, TRACE_FLAGS);

@@ -10,13 +10,16 @@ import { DecentraScene } from './scene/decentraScene.ts';
 import { COLORS, css } from './scene/palette.ts';
 import { allocateRayPaths, buildRayPaths } from './scene/rayPaths.ts';
 import { VIEW_NAMES, type ViewName } from './scene/viewer.ts';
+import { CaseStore } from './ui/caseStore.ts';
 import { type Computed, computeCase } from './ui/compute.ts';
 import { Controls } from './ui/controls.ts';
 import { CrossSection } from './ui/crossSection.ts';
 import { num } from './ui/format.ts';
 import { MapView } from './ui/mapView.ts';
 import { Panel } from './ui/panel.ts';
+import { type Persistence, readSaved, startPersistence } from './ui/persist/index.ts';
 import { ProfilePlot } from './ui/profilePlot.ts';
+import { setupWorkspaceSwitch } from './ui/binocular/switch.ts';
 
 const $ = <T extends HTMLElement = HTMLElement>(id: string): T => document.getElementById(id) as T;
 
@@ -25,7 +28,12 @@ for (const [name, hex] of Object.entries({
   undeviated: COLORS.undeviated, visual: COLORS.visualPoint,
 })) document.documentElement.style.setProperty(`--c-${name}`, css(hex));
 
-const parsed = caseFromQuery(location.search, DEMO_CASE, DEFAULT_DISPLAY);
+// what was saved before (docs/saving.md); a link that carries a single-lens case wins for that view
+const saved = readSaved(location.search);
+const parsed = caseFromQuery(saved.view.query, DEMO_CASE, DEFAULT_DISPLAY);
+/** The binocular case: one store for the whole app ("Both eyes", saving), restored if autosaved. */
+const caseStore = new CaseStore(saved.working?.doc);
+let persistence: Persistence | null = null;
 let viewCase: ViewCase = parsed.viewCase;
 let display: ViewDisplay = parsed.display;
 let last: Computed | null = null;
@@ -227,6 +235,7 @@ function writeUrlNow(): void {
   if (urlTimer) window.clearTimeout(urlTimer);
   urlTimer = 0;
   const q = caseToQuery(viewCase, display);
+  persistence?.viewChanged(q);
   if (location.search.slice(1) !== q) history.replaceState(null, '', `${location.pathname}?${q}`);
 }
 window.addEventListener('pagehide', writeUrlNow);
@@ -276,9 +285,18 @@ const hook = {
     };
   }),
   parsedIgnored: parsed.ignored,
+  caseStore,
 };
 (window as unknown as { __decentra: typeof hook }).__decentra = hook;
 
+persistence = startPersistence({ saved, store: caseStore, menuHost: $('case-menu'), getViewCase: () => ({ ...viewCase }) });
 if (parsed.ignored.length) toast(`Some link values were not understood and were left at the demo's: ${parsed.ignored.join(', ')}`);
 showTab(display.tab);
 update(null);
+
+// the workspace switch: "Single lens" (above) or "Both eyes" (ui/binocular, on the same caseStore)
+const workspaces = setupWorkspaceSwitch(
+  caseStore, $('workspace-single'), $('workspace-both'),
+  Array.from(document.querySelectorAll<HTMLButtonElement>('#workspace-switch button')),
+);
+Object.assign(hook, { workspace: workspaces.current, showWorkspace: workspaces.show, binocular: () => workspaces.binocular()?.hook() ?? null });

@@ -1,0 +1,263 @@
+/**
+ * The "both eyes" controls (lil-gui): each eye's prescription, lens and fitting; the frame
+ * and where the optical centres sit; tilt and wrap; the target; the tolerance profile.
+ *
+ * Numeric fields are text read by src/case (so "2.5 mm" and "0.25 cm" both work), with the
+ * arrow keys stepping the value (Shift: ten steps). Every edit hands the whole form to
+ * onEdit, which builds a document and gives it to the store; a refused value comes back
+ * through showError and is shown under its field. Nothing here computes optics.
+ */
+import GUI, { type Controller } from 'lil-gui';
+import { readNumber } from '../../case/input.ts';
+import { MATERIALS } from '../../optics/index.ts';
+import {
+  type BinocularForm, type CaseKey, type EyeKey, type FormField, SIDES, type Side, EYE_NAMES, fieldSpec, profileChoices,
+} from './form.ts';
+
+export interface BinocularControlHandlers {
+  onEdit(form: BinocularForm, field: FormField): void;
+  onRestoreDemo(): void;
+}
+
+export class BinocularControls {
+  readonly gui: GUI;
+  private readonly form: BinocularForm;
+  private readonly ctrl = new Map<FormField, Controller>();
+  private readonly errorEls = new Map<FormField, HTMLElement>();
+  private readonly general: HTMLElement;
+
+  constructor(container: HTMLElement, initial: BinocularForm, private readonly handlers: BinocularControlHandlers) {
+    this.form = structuredClone(initial);
+    this.gui = new GUI({ container, title: 'Both eyes: the case', width: 280 });
+    this.gui.domElement.classList.add('controls-gui', 'bi-controls-gui');
+    this.general = document.createElement('div');
+    this.general.className = 'field-error bi-general-error';
+    this.general.setAttribute('role', 'alert');
+    this.general.hidden = true;
+    this.gui.$children.prepend(this.general);
+
+    for (const side of SIDES) this.eyeFolder(side);
+
+    const fr = this.gui.addFolder('Frame and optical centres');
+    this.choice(fr, 'case.frame', { 'None given': 'none', 'Boxed frame (A, B, DBL)': 'boxed' });
+    this.num(fr, 'case.a');
+    this.num(fr, 'case.b');
+    this.num(fr, 'case.dbl');
+    this.choice(fr, 'case.ocMode', { 'Direct: x, y from each pupil': 'direct', 'From the frame': 'frame' });
+    const hint = document.createElement('p');
+    hint.className = 'controls-hint';
+    hint.textContent = 'Each eye’s folder holds its optical-centre fields. Direct: x towards the wearer’s left (nasal for the right eye, temporal for the left), y up. From the frame: decentration inwards from the boxed centre; heights above the lower box line (blank: B/2, and the OC at the fitting height).';
+    fr.$children.appendChild(hint);
+    this.num(fr, 'case.panto');
+    this.num(fr, 'case.wrap');
+
+    const tg = this.gui.addFolder('Target');
+    this.choice(tg, 'case.target', { 'Distance, straight ahead': 'distance', 'Near point': 'near' });
+    this.num(tg, 'case.distance');
+    this.num(tg, 'case.below');
+    this.num(tg, 'case.lateral');
+
+    const tol = this.gui.addFolder('Tolerance');
+    this.choice(tol, 'case.profile', profileChoices());
+    this.num(tol, 'case.tolH');
+    this.num(tol, 'case.tolV');
+
+    const act = this.gui.addFolder('Case');
+    act.add({ restore: () => handlers.onRestoreDemo() }, 'restore').name('Restore the demo case');
+
+    this.gui.folders.forEach((f) => f.domElement.setAttribute('data-folder', f._title));
+    this.refreshVisibility();
+  }
+
+  /** Show another case (opened, restored, or changed elsewhere). */
+  setForm(form: BinocularForm): void {
+    for (const side of SIDES) Object.assign(this.form[side], form[side]);
+    Object.assign(this.form.case, form.case);
+    for (const c of this.ctrl.values()) c.updateDisplay();
+    this.refreshVisibility();
+  }
+
+  getForm(): BinocularForm {
+    return structuredClone(this.form);
+  }
+
+  /**
+   * Show one message beside its field (or clear all when message is null). A message for
+   * no field on screen goes at the top of the controls.
+   */
+  showError(field: FormField | null, message: string | null): void {
+    for (const [k, el] of this.errorEls) {
+      el.hidden = true;
+      el.textContent = '';
+      const d = this.ctrl.get(k)?.domElement;
+      d?.classList.remove('invalid');
+      d?.querySelector('input, select')?.removeAttribute('aria-invalid');
+    }
+    this.general.hidden = true;
+    this.general.textContent = '';
+    if (!message) return;
+    const ctl = field ? this.ctrl.get(field) : undefined;
+    const el = field ? this.errorEls.get(field) : undefined;
+    if (!ctl || !el || !this.isShown(field!)) {
+      this.general.textContent = message;
+      this.general.hidden = false;
+      return;
+    }
+    ctl.domElement.classList.add('invalid');
+    ctl.domElement.querySelector('input, select')?.setAttribute('aria-invalid', 'true');
+    el.textContent = message;
+    el.hidden = false;
+    // open its folders so that the message can be seen
+    for (let g: GUI | undefined = ctl.parent; g; g = g.parent) g.open();
+    el.scrollIntoView({ block: 'nearest' });
+  }
+
+  private isShown(f: FormField): boolean {
+    const d = this.ctrl.get(f)?.domElement;
+    return !!d && d.style.display !== 'none';
+  }
+
+  private eyeFolder(side: Side): void {
+    const eye = this.gui.addFolder(EYE_NAMES[side]);
+    eye.domElement.dataset.side = side;
+    const f = (k: EyeKey): FormField => `${side}.${k}`;
+    this.num(eye, f('sphere'));
+    this.num(eye, f('cyl'));
+    this.num(eye, f('axis'));
+    const mats: Record<string, string> = {};
+    for (const m of MATERIALS) mats[m.name.replace(/\s*\(.*\)$/, '')] = m.id;
+    mats['custom index and Abbe'] = 'custom';
+    this.choice(eye, f('material'), mats);
+    this.num(eye, f('index'));
+    this.num(eye, f('abbe'));
+    this.choice(eye, f('frontMode'), { 'Rule (Vogel or steps)': 'rule', 'True power': 'true', 'Nominal + tool index': 'nominal' });
+    this.text(eye, f('frontRule'));
+    this.num(eye, f('front'));
+    this.num(eye, f('base'));
+    this.num(eye, f('toolIndex'));
+    this.choice(eye, f('thicknessMode'), { 'Centre thickness': 'centre', 'Min edge / centre': 'rule' });
+    this.num(eye, f('ct'));
+    this.num(eye, f('minEdge'));
+    this.num(eye, f('minCt'));
+    this.num(eye, f('diameter'));
+    this.num(eye, f('pd'));
+    this.num(eye, f('cr'));
+    this.num(eye, f('ocX'));
+    this.num(eye, f('ocY'));
+    this.num(eye, f('decentration'));
+    this.num(eye, f('fittingHeight'));
+    this.num(eye, f('ocHeight'));
+    for (const k of ['diameter', 'fittingHeight', 'ocHeight'] as const) {
+      const input = this.ctrl.get(f(k))?.domElement.querySelector('input');
+      input?.setAttribute('placeholder', k === 'diameter' ? 'none' : k === 'fittingHeight' ? 'B/2' : 'fitting height');
+    }
+  }
+
+  private target(field: FormField): [Record<string, string>, string] {
+    const [g, k] = field.split('.') as [string, string];
+    const obj = (g === 'case' ? this.form.case : this.form[g as Side]) as unknown as Record<string, string>;
+    return [obj, k];
+  }
+
+  private num(folder: GUI, field: FormField): void {
+    const spec = fieldSpec(field);
+    const [obj, key] = this.target(field);
+    const c = folder.add(obj, key).name(spec.label);
+    c.domElement.setAttribute('data-field', field);
+    const input = c.domElement.querySelector('input') as HTMLInputElement;
+    input.setAttribute('data-field', field);
+    input.setAttribute('inputmode', 'decimal');
+    input.setAttribute('aria-describedby', `bi-err-${field.replace('.', '-')}`);
+    input.addEventListener('keydown', (e) => {
+      if (e.key !== 'ArrowUp' && e.key !== 'ArrowDown') return;
+      let v: number;
+      try {
+        v = readNumber(spec.label, input.value, spec.quantity);
+      } catch {
+        return;
+      }
+      e.preventDefault();
+      const d = (e.key === 'ArrowUp' ? 1 : -1) * spec.step * (e.shiftKey ? 10 : 1);
+      const nv = Math.round((v + d) / spec.step) * spec.step;
+      const s = nv.toFixed(spec.decimals);
+      c.setValue(/^-0\.?0*$/.test(s) ? s.slice(1) : s);
+    });
+    c.onChange(() => this.emit(field));
+    this.attachError(field, c);
+  }
+
+  private text(folder: GUI, field: FormField): void {
+    const [obj, key] = this.target(field);
+    const c = folder.add(obj, key).name(fieldSpec(field).label);
+    c.domElement.setAttribute('data-field', field);
+    c.domElement.querySelector('input')?.setAttribute('data-field', field);
+    c.onChange(() => this.emit(field));
+    this.attachError(field, c);
+  }
+
+  private choice(folder: GUI, field: FormField, options: Record<string, string>): void {
+    const [obj, key] = this.target(field);
+    const c = folder.add(obj, key, options).name(fieldSpec(field).label);
+    c.domElement.setAttribute('data-field', field);
+    c.domElement.querySelector('select')?.setAttribute('data-field', field);
+    c.onChange(() => {
+      this.refreshVisibility();
+      this.emit(field);
+    });
+    this.attachError(field, c);
+  }
+
+  private attachError(field: FormField, c: Controller): void {
+    const el = document.createElement('div');
+    el.className = 'field-error';
+    el.id = `bi-err-${field.replace('.', '-')}`;
+    el.setAttribute('role', 'alert');
+    el.hidden = true;
+    c.domElement.after(el);
+    this.ctrl.set(field, c);
+    this.errorEls.set(field, el);
+  }
+
+  refreshVisibility(): void {
+    const show = (f: FormField, v: boolean): void => {
+      this.ctrl.get(f)?.show(v);
+      const el = this.errorEls.get(f);
+      if (el && !v) el.hidden = true;
+    };
+    const c = this.form.case;
+    const framed = c.frame === 'boxed';
+    for (const k of ['a', 'b', 'dbl'] as CaseKey[]) show(`case.${k}`, framed);
+    const near = c.target === 'near';
+    for (const k of ['distance', 'below', 'lateral'] as CaseKey[]) show(`case.${k}`, near);
+    const custom = c.profile === 'custom';
+    show('case.tolH', custom);
+    show('case.tolV', custom);
+    for (const side of SIDES) {
+      const e = this.form[side];
+      const f = (k: EyeKey): FormField => `${side}.${k}`;
+      show(f('index'), e.material === 'custom');
+      show(f('abbe'), e.material === 'custom');
+      show(f('frontRule'), e.frontMode === 'rule');
+      show(f('front'), e.frontMode === 'true');
+      show(f('base'), e.frontMode === 'nominal');
+      show(f('toolIndex'), e.frontMode === 'nominal');
+      show(f('ct'), e.thicknessMode === 'centre');
+      show(f('minEdge'), e.thicknessMode === 'rule');
+      show(f('minCt'), e.thicknessMode === 'rule');
+      const direct = c.ocMode === 'direct';
+      show(f('ocX'), direct);
+      show(f('ocY'), direct);
+      show(f('decentration'), !direct);
+      show(f('fittingHeight'), !direct);
+      show(f('ocHeight'), !direct);
+    }
+  }
+
+  private emit(field: FormField): void {
+    this.handlers.onEdit(structuredClone(this.form), field);
+  }
+
+  dispose(): void {
+    this.gui.destroy();
+  }
+}

@@ -1,0 +1,40 @@
+/**
+ * Notices about saving, opening and exporting: a small stack in the top-right corner. A
+ * problem stays until it is dismissed (or replaced by a notice with the same key); news goes
+ * after a few seconds. Text only (textContent): nothing from a file or the storage is ever
+ * read as markup.
+ */
+import type { NoticeKind } from './keeper.ts';
+
+export class Notices {
+  readonly element: HTMLElement;
+  private readonly byKey = new Map<string, HTMLElement>();
+
+  constructor(parent: HTMLElement = document.body) {
+    this.element = document.createElement('div');
+    this.element.className = 'persist-notices';
+    this.element.id = 'persist-notices';
+    parent.append(this.element);
+  }
+
+  show(kind: NoticeKind, text: string, key?: string): void {
+    if (key) this.byKey.get(key)?.remove();
+    const n = document.createElement('div');
+    n.className = `persist-notice persist-notice--${kind}`;
+    n.setAttribute('role', kind === 'error' ? 'alert' : 'status');
+    if (key) n.dataset.key = key;
+    const p = document.createElement('p');
+    p.textContent = text;
+    const close = document.createElement('button');
+    close.type = 'button';
+    close.className = 'persist-notice-close';
+    close.textContent = '×';
+    close.title = 'Dismiss';
+    close.setAttribute('aria-label', 'Dismiss this notice');
+    close.addEventListener('click', () => n.remove());
+    n.append(p, close);
+    this.element.append(n);
+    if (key) this.byKey.set(key, n);
+    if (kind === 'info') window.setTimeout(() => n.remove(), 6000);
+  }
+}

@@ -7,7 +7,7 @@
 import * as v from 'valibot';
 import { findProfile } from '../optics/index.ts';
 import { InputError, inRange } from './input.ts';
-import { type FieldKey, LIMITS, type LensForm, type RawFields, readLensForm } from './lensCase.ts';
+import { type FieldKey, LIMITS, type LensForm, type RawFields, buildLens, readLensForm } from './lensCase.ts';
 
 export const CASE_FORMAT = 'decentra-case';
 export const CASE_VERSION = 1;
@@ -88,6 +88,21 @@ export interface BinocularCase {
 }
 
 export class CaseError extends InputError {}
+
+/**
+ * One lens's box in the boxing system (ISO 8624), in the binocular frame: x from the middle
+ * of the bridge (the boxed centres are (A + DBL)/2 either side), y from the pupils' height
+ * (the box's lower line lies a fitting height below it), mm.
+ */
+export function frameBox(
+  frame: { a: number; b: number; dbl: number }, side: 'right' | 'left', fittingHeightMm = frame.b / 2,
+): { centreX: number; xMin: number; xMax: number; yMin: number; yMax: number } {
+  const centreX = ((side === 'right' ? -1 : 1) * (frame.a + frame.dbl)) / 2;
+  return {
+    centreX, xMin: centreX - frame.a / 2, xMax: centreX + frame.a / 2,
+    yMin: -fittingHeightMm, yMax: frame.b - fittingHeightMm,
+  };
+}
 
 /** Read a case from file bytes: UTF-8 (strict), size-limited, JSON, schema, values. */
 export function readCaseBytes(bytes: Uint8Array): BinocularCase {
@@ -190,9 +205,11 @@ function checkValues(doc: CaseDocument): BinocularCase {
       const dec = inRange(label('decentration'), d.decentration ?? 0, { min: -20, max: 20, unit: 'mm' });
       const fit = inRange(label('fittingHeight'), d.fittingHeight ?? b / 2, { min: 0, max: b, unit: 'mm' });
       const och = inRange(label('ocHeight'), d.ocHeight ?? fit, { min: 0, max: b, unit: 'mm' });
-      // boxed centre at (A + DBL)/2 from the middle of the bridge; decentration moves the OC inwards
-      const half = (a + dbl) / 2;
-      ocXMm = side === 'right' ? -half + dec + pdMm : half - dec - pdMm;
+      // decentration moves the OC inwards (towards the nose) from the boxed centre
+      const box = frameBox(doc.frame, side, fit);
+      const inward = side === 'right' ? 1 : -1;
+      const pupilX = side === 'right' ? -pdMm : pdMm;
+      ocXMm = box.centreX + inward * dec - pupilX;
       ocYMm = och - fit;
     } else {
       ocXMm = 0;
@@ -202,6 +219,10 @@ function checkValues(doc: CaseDocument): BinocularCase {
   };
   const right = eye('right');
   const left = eye('left');
+  // a lens that cannot be made (surfaces crossing, a front too strong) is refused here too,
+  // so that a case that loads is a case that can be evaluated
+  buildLens(right.lens, (k) => `right.${k}`);
+  buildLens(left.lens, (k) => `left.${k}`);
   const pantoDeg = doc.pantoDeg === undefined ? 0 : inRange('pantoDeg', doc.pantoDeg, { min: -20, max: 30, unit: 'degrees' });
   const wrapDeg = doc.wrapDeg === undefined ? 0 : inRange('wrapDeg', doc.wrapDeg, { min: -10, max: 35, unit: 'degrees' });
   const t = doc.target;

@@ -9,6 +9,7 @@ import GUI, { type Controller } from 'lil-gui';
 import { readNumber, type Quantity } from '../case/input.ts';
 import type { ViewCase, ViewDisplay, ViewField } from '../case/url.ts';
 import { MATERIALS } from '../optics/index.ts';
+import { enableArrowSteps, formatStep } from './numberInput.ts';
 
 interface NumberField {
   key: ViewField;
@@ -172,21 +173,8 @@ export class Controls {
     c.domElement.setAttribute('data-field', spec.key);
     const input = c.domElement.querySelector('input') as HTMLInputElement;
     input.setAttribute('data-field', spec.key);
-    input.setAttribute('inputmode', 'decimal');
     input.setAttribute('aria-describedby', `err-${spec.key}`);
-    input.addEventListener('keydown', (e) => {
-      if (e.key !== 'ArrowUp' && e.key !== 'ArrowDown') return;
-      let v: number;
-      try {
-        v = readNumber(spec.label, input.value, spec.quantity);
-      } catch {
-        return;
-      }
-      e.preventDefault();
-      const d = (e.key === 'ArrowUp' ? 1 : -1) * spec.step * (e.shiftKey ? 10 : 1);
-      const nv = Math.round((v + d) / spec.step) * spec.step;
-      c.setValue(formatStep(nv, spec));
-    });
+    enableArrowSteps(input, spec, (text) => c.setValue(text));
     c.onChange(() => this.emitCase(spec.key));
     this.attachError(spec.key, c);
   }
@@ -275,9 +263,4 @@ export class Controls {
   dispose(): void {
     this.gui.destroy();
   }
-}
-
-function formatStep(v: number, spec: { step: number; decimals: number }): string {
-  const s = v.toFixed(spec.decimals);
-  return /^-0\.?0*$/.test(s) ? s.slice(1) : s;
 }

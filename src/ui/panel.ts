@@ -7,6 +7,7 @@
 import type { Answer, PrismDescription } from '../optics/index.ts';
 import type { Computed } from './compute.ts';
 import { DASH, dioptres, num, signed, spheroCyl, withUnit } from './format.ts';
+import { ResultsPane, el } from './resultsPane.ts';
 
 const ROWS: { key: 'prentice' | 'paraxial' | 'exact' | 'focimeter'; name: string; note: string }[] = [
   { key: 'prentice', name: 'Prentice', note: 'thin-lens rule, −F·c' },
@@ -15,12 +16,6 @@ const ROWS: { key: 'prentice' | 'paraxial' | 'exact' | 'focimeter'; name: string
   { key: 'focimeter', name: 'Focimeter', note: 'what the instrument reads here' },
 ];
 
-function el<K extends keyof HTMLElementTagNameMap>(tag: K, cls?: string, text?: string): HTMLElementTagNameMap[K] {
-  const e = document.createElement(tag);
-  if (cls) e.className = cls;
-  if (text !== undefined) e.textContent = text;
-  return e;
-}
 
 /** A number with its unit, its full value in data-value for tests and copy/paste. */
 function valueSpan(v: number, unit: string, decimals: number, q: string): HTMLSpanElement {
@@ -30,26 +25,9 @@ function valueSpan(v: number, unit: string, decimals: number, q: string): HTMLSp
   return s;
 }
 
-export class Panel {
-  readonly root: HTMLElement;
-  private readonly status: HTMLElement;
-  private readonly body: HTMLElement;
-
-  constructor(root: HTMLElement) {
-    this.root = root;
-    this.status = el('div', 'results-status');
-    this.status.setAttribute('role', 'status');
-    this.status.setAttribute('aria-live', 'polite');
-    this.body = el('div', 'results-body');
-    root.append(this.status, this.body);
-  }
-
+export class Panel extends ResultsPane {
   render(r: Computed): void {
-    this.root.classList.remove('stale');
-    this.status.dataset.state = 'current';
-    this.status.textContent = 'Up to date';
-    const b = this.body;
-    b.replaceChildren();
+    const b = this.begin();
     const eyeWord = r.tc.eye === 'R' ? 'Right eye' : 'Left eye';
     const rx = `${signed(r.tc.lens.sphereD)} / ${signed(r.tc.lens.cylD)} × ${num(r.tc.lens.axisDeg, 0)}°`;
     b.append(el('h2', 'results-title', 'Prism at the visual point'));
@@ -165,21 +143,6 @@ export class Panel {
     if (r.warnings.length === 0) ul.append(el('li', 'none', 'None for this point.'));
     for (const w of r.warnings) ul.append(el('li', 'warn', w));
     b.append(ul);
-  }
-
-  /** Keep the last valid result, marked stale, with the reason. */
-  setStale(message: string): void {
-    this.root.classList.add('stale');
-    this.status.dataset.state = 'stale';
-    this.status.textContent = `Stale: ${message}. The figures below are the last valid result.`;
-  }
-
-  /** No valid result yet (a link whose case is invalid from the start). */
-  setEmpty(message: string): void {
-    this.root.classList.add('stale');
-    this.status.dataset.state = 'stale';
-    this.status.textContent = `Invalid input: ${message}.`;
-    this.body.replaceChildren(el('p', 'results-summary', 'Correct the highlighted field to see the answers.'));
   }
 }
 

@@ -65,7 +65,7 @@ const arbLens = fc.record({
   toric: fc.constantFrom('tyre', 'barrel'),
   pd: dbl(25, 40),
   cr: dbl(20, 35),
-}, { requiredKeys: ['sphere', 'pd'] });
+}, { requiredKeys: ['sphere', 'pd', 'ct'] }); // a centre thickness and no diameter: every lens can be made
 const arbOc = fc.record({ x: dbl(-5, 5), y: dbl(-5, 5) });
 const arbFrameEye = fc.record({ decentration: dbl(-5, 5), fittingHeight: dbl(10, 25), ocHeight: dbl(10, 25) }, { requiredKeys: [] });
 const arbDoc: fc.Arbitrary<CaseDocument> = fc.record({

@@ -8,8 +8,8 @@
  * through showError and is shown under its field. Nothing here computes optics.
  */
 import GUI, { type Controller } from 'lil-gui';
-import { readNumber } from '../../case/input.ts';
 import { MATERIALS } from '../../optics/index.ts';
+import { enableArrowSteps } from '../numberInput.ts';
 import {
   type BinocularForm, type CaseKey, type EyeKey, type FormField, SIDES, type Side, EYE_NAMES, fieldSpec, profileChoices,
 } from './form.ts';
@@ -166,22 +166,8 @@ export class BinocularControls {
     c.domElement.setAttribute('data-field', field);
     const input = c.domElement.querySelector('input') as HTMLInputElement;
     input.setAttribute('data-field', field);
-    input.setAttribute('inputmode', 'decimal');
     input.setAttribute('aria-describedby', `bi-err-${field.replace('.', '-')}`);
-    input.addEventListener('keydown', (e) => {
-      if (e.key !== 'ArrowUp' && e.key !== 'ArrowDown') return;
-      let v: number;
-      try {
-        v = readNumber(spec.label, input.value, spec.quantity);
-      } catch {
-        return;
-      }
-      e.preventDefault();
-      const d = (e.key === 'ArrowUp' ? 1 : -1) * spec.step * (e.shiftKey ? 10 : 1);
-      const nv = Math.round((v + d) / spec.step) * spec.step;
-      const s = nv.toFixed(spec.decimals);
-      c.setValue(/^-0\.?0*$/.test(s) ? s.slice(1) : s);
-    });
+    enableArrowSteps(input, spec, (text) => c.setValue(text));
     c.onChange(() => this.emit(field));
     this.attachError(field, c);
   }

@@ -11,17 +11,12 @@ import type { Answer, EyeResult, PrismDescription, Verdict } from '../../optics/
 import { DASH, num, withUnit } from '../format.ts';
 import type { BinocularComputed } from './compute.ts';
 import { EYE_NAMES, SIDES, type Side } from './form.ts';
+import { ResultsPane, el } from '../resultsPane.ts';
 import {
   imbalanceWords, isFailed, netHorizontalWords, offsetWords, prism360, prismWords, rotationWords, ruleWords,
   verdictWords,
 } from './words.ts';
 
-function el<K extends keyof HTMLElementTagNameMap>(tag: K, cls?: string, text?: string): HTMLElementTagNameMap[K] {
-  const e = document.createElement(tag);
-  if (cls) e.className = cls;
-  if (text !== undefined) e.textContent = text;
-  return e;
-}
 
 /** A span with text, its full value in data-value (for tests and copying) and a name in data-q. */
 function valueSpan(text: string, q: string, value: number | null): HTMLSpanElement {
@@ -31,26 +26,9 @@ function valueSpan(text: string, q: string, value: number | null): HTMLSpanEleme
   return s;
 }
 
-export class BinocularPanel {
-  readonly root: HTMLElement;
-  private readonly status: HTMLElement;
-  private readonly body: HTMLElement;
-
-  constructor(root: HTMLElement) {
-    this.root = root;
-    this.status = el('div', 'results-status');
-    this.status.setAttribute('role', 'status');
-    this.status.setAttribute('aria-live', 'polite');
-    this.body = el('div', 'results-body');
-    root.append(this.status, this.body);
-  }
-
+export class BinocularPanel extends ResultsPane {
   render(r: BinocularComputed): void {
-    this.root.classList.remove('stale');
-    this.status.dataset.state = 'current';
-    this.status.textContent = 'Up to date';
-    const b = this.body;
-    b.replaceChildren();
+    const b = this.begin();
     const { c, fit } = r;
     const res = fit.result;
     b.append(el('h2', 'results-title', 'Both eyes at the target'));
@@ -242,21 +220,6 @@ export class BinocularPanel {
     box.append(cen);
     box.append(el('p', 'bi-source', `Source: ${fit.profile.source}.`));
     return box;
-  }
-
-  /** Keep the last valid result, marked stale, with the reason. */
-  setStale(message: string): void {
-    this.root.classList.add('stale');
-    this.status.dataset.state = 'stale';
-    this.status.textContent = `Stale: ${message}. The figures below are the last valid result.`;
-  }
-
-  /** No valid result yet. */
-  setEmpty(message: string): void {
-    this.root.classList.add('stale');
-    this.status.dataset.state = 'stale';
-    this.status.textContent = `Invalid input: ${message}.`;
-    this.body.replaceChildren(el('p', 'results-summary', 'Correct the highlighted field to see the answers.'));
   }
 }
 

@@ -6,7 +6,7 @@
  * valid result stays on screen, marked stale. A change made elsewhere (a file opened, the
  * demo restored) arrives through the store's subscription and refills the fields.
  */
-import type { BinocularCase } from '../../case/caseFile.ts';
+import { type BinocularCase, frameBox } from '../../case/caseFile.ts';
 import { InputError } from '../../case/input.ts';
 import { BINOCULAR_VIEWS, type BinocularSceneInput, type BinocularViewName, BinocularScene, FRAME_COLOR } from '../../scene/binocular/binocularScene.ts';
 import { COLORS, css } from '../../scene/palette.ts';
@@ -233,13 +233,9 @@ function sceneInput(r: BinocularComputed): BinocularSceneInput {
   };
   let boxes: BinocularSceneInput['frame'] = null;
   if (frame) {
-    // boxing system: each boxed centre (A + DBL)/2 from the middle of the bridge; the box's
-    // lower line a fitting height below the pupil (B/2 when not given), as in docs/case-file.md
     const box = (side: 'right' | 'left') => {
-      const sgn = side === 'right' ? -1 : 1;
-      const cx = (sgn * (frame.a + frame.dbl)) / 2;
-      const fh = c.doc[side].fittingHeight ?? frame.b / 2;
-      return { xMin: cx - frame.a / 2, xMax: cx + frame.a / 2, yMin: -fh, yMax: frame.b - fh };
+      const { xMin, xMax, yMin, yMax } = frameBox(frame, side, c.doc[side].fittingHeight);
+      return { xMin, xMax, yMin, yMax };
     };
     boxes = { right: box('right'), left: box('left') };
   }

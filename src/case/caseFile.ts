@@ -156,6 +156,7 @@ function explainIssue(issue: v.BaseIssue<unknown>): string {
     return `is not a field of a Decentra case (remove it)`;
   }
   if (issue.received === 'undefined') return `is required (${issue.expected ?? 'a value'})`;
+  if (issue.type === 'finite') return `must be a finite number, got ${issue.received}`;
   return `must be ${issue.expected ?? 'valid'}, got ${issue.received}`;
 }
 

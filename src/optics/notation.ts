@@ -51,11 +51,20 @@ export function horizontalComponent(amount: number, base: 'in' | 'out', eye: Eye
   return sign * amount;
 }
 
-/** Words for a prism: "1.25 Δ base in, 0.50 Δ base up (right eye)". */
-export function prismInWords(p: PrismDescription, eye: Eye, decimals = 2): string {
+/**
+ * The components in words: "0.32 Δ base out, 1.50 Δ base up"; a component that rounds to zero
+ * at this many decimals is left out, and "no prism (under 0.005 Δ)" when both are.
+ */
+export function prismWords(p: PrismDescription, decimals = 2): string {
+  const zero = (0).toFixed(decimals);
   const parts: string[] = [];
-  if (p.horizontal.base) parts.push(`${p.horizontal.amount.toFixed(decimals)} Δ base ${p.horizontal.base}`);
-  if (p.vertical.base) parts.push(`${p.vertical.amount.toFixed(decimals)} Δ base ${p.vertical.base}`);
-  const what = parts.length ? parts.join(', ') : `no prism (below ${(0.5 * 10 ** -decimals).toFixed(decimals + 1)} Δ)`;
-  return `${what} (${eye === 'R' ? 'right' : 'left'} eye)`;
+  const h = p.horizontal.amount.toFixed(decimals), v = p.vertical.amount.toFixed(decimals);
+  if (p.horizontal.base && h !== zero) parts.push(`${h} Δ base ${p.horizontal.base}`);
+  if (p.vertical.base && v !== zero) parts.push(`${v} Δ base ${p.vertical.base}`);
+  return parts.length ? parts.join(', ') : `no prism (under ${(0.5 * 10 ** -decimals).toFixed(decimals + 1)} Δ)`;
+}
+
+/** Words for a prism with its eye: "1.25 Δ base in, 0.50 Δ base up (right eye)". */
+export function prismInWords(p: PrismDescription, eye: Eye, decimals = 2): string {
+  return `${prismWords(p, decimals)} (${eye === 'R' ? 'right' : 'left'} eye)`;
 }

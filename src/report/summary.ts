@@ -14,7 +14,7 @@ import type { BinocularCase, EyeCase, EyeDocument } from '../case/caseFile.ts';
 import type { FitReport } from '../case/fit.ts';
 import {
   type Answer, type EyeResult, type Lens, type PrismDescription, type SignedPair, type Verdict, findMaterial,
-  isFailure,
+  isFailure, prismWords,
 } from '../optics/index.ts';
 import { crossSectionSvg, directionWords } from './crossSection.ts';
 import { DASH, type Markup, type Part, fmt, fmtSigned, html, trusted, withUnit } from './html.ts';
@@ -47,13 +47,6 @@ export function isoDay(d: Date): string {
   return d.toISOString().slice(0, 10);
 }
 
-/** "0.32 Δ base out, 1.50 Δ base up"; "no prism" when both components round to zero. */
-export function prismWords(p: PrismDescription): string {
-  const parts: string[] = [];
-  if (p.horizontal.base && fmt(p.horizontal.amount) !== '0.00') parts.push(`${fmt(p.horizontal.amount)} Δ base ${p.horizontal.base}`);
-  if (p.vertical.base && fmt(p.vertical.amount) !== '0.00') parts.push(`${fmt(p.vertical.amount)} Δ base ${p.vertical.base}`);
-  return parts.length ? parts.join(', ') : 'no prism (under 0.005 Δ)';
-}
 
 /** 360° notation: "1.53 Δ base 102°" (whole degrees, 0-359). */
 export function prism360(p: PrismDescription): string {

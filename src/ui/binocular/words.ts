@@ -6,7 +6,9 @@
  * imbalance is right minus left, > 0 the right eye base up. Every number has its unit and
  * goes through format.ts (a dash, never NaN or Infinity).
  */
-import type { Answer, PrismDescription, Verdict } from '../../optics/index.ts';
+import { type Answer, type PrismDescription, type Verdict, prismWords } from '../../optics/index.ts';
+
+export { prismWords };
 import { num } from '../format.ts';
 import type { Side } from './form.ts';
 
@@ -14,13 +16,6 @@ export function isFailed(a: Answer): a is { failure: 'miss' | 'tir' | 'geometry'
   return 'failure' in a;
 }
 
-/** "5.13 Δ base in, 7.25 Δ base down"; "no prism" when both round to zero. */
-export function prismWords(p: PrismDescription): string {
-  const parts: string[] = [];
-  if (p.horizontal.base && num(p.horizontal.amount) !== '0.00') parts.push(`${num(p.horizontal.amount)} Δ base ${p.horizontal.base}`);
-  if (p.vertical.base && num(p.vertical.amount) !== '0.00') parts.push(`${num(p.vertical.amount)} Δ base ${p.vertical.base}`);
-  return parts.length ? parts.join(', ') : 'no prism (under 0.005 Δ)';
-}
 
 /** 360° notation: "8.88 Δ base 305.3°". */
 export function prism360(p: PrismDescription): string {

@@ -9,7 +9,7 @@ import GUI, { type Controller } from 'lil-gui';
 import { readNumber, type Quantity } from '../case/input.ts';
 import type { ViewCase, ViewDisplay, ViewField } from '../case/url.ts';
 import { MATERIALS } from '../optics/index.ts';
-import { enableArrowSteps, formatStep } from './numberInput.ts';
+import { enableArrowSteps, errorSlot, formatStep } from './numberInput.ts';
 
 interface NumberField {
   key: ViewField;
@@ -192,14 +192,8 @@ export class Controls {
   }
 
   private attachError(key: ViewField, c: Controller): void {
-    const el = document.createElement('div');
-    el.className = 'field-error';
-    el.id = `err-${key}`;
-    el.setAttribute('role', 'alert');
-    el.hidden = true;
-    c.domElement.after(el);
     this.ctrl.set(key, c);
-    this.errorEls.set(key, el);
+    this.errorEls.set(key, errorSlot(c.domElement, `err-${key}`));
   }
 
   /** Keep the visual point where it is when switching between x, y and direction, distance. */

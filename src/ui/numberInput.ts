@@ -30,3 +30,14 @@ export function enableArrowSteps(input: HTMLInputElement, spec: StepSpec, setVal
     setValue(formatStep(Math.round((v + d) / spec.step) * spec.step, spec));
   });
 }
+
+/** The hidden message slot under a control, where a refused value's reason is shown. */
+export function errorSlot(after: HTMLElement, id: string): HTMLDivElement {
+  const el = document.createElement('div');
+  el.className = 'field-error';
+  el.id = id;
+  el.setAttribute('role', 'alert');
+  el.hidden = true;
+  after.after(el);
+  return el;
+}

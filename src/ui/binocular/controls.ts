@@ -9,7 +9,7 @@
  */
 import GUI, { type Controller } from 'lil-gui';
 import { MATERIALS } from '../../optics/index.ts';
-import { enableArrowSteps } from '../numberInput.ts';
+import { enableArrowSteps, errorSlot } from '../numberInput.ts';
 import {
   type BinocularForm, type CaseKey, type EyeKey, type FormField, SIDES, type Side, EYE_NAMES, fieldSpec, profileChoices,
 } from './form.ts';
@@ -194,14 +194,8 @@ export class BinocularControls {
   }
 
   private attachError(field: FormField, c: Controller): void {
-    const el = document.createElement('div');
-    el.className = 'field-error';
-    el.id = `bi-err-${field.replace('.', '-')}`;
-    el.setAttribute('role', 'alert');
-    el.hidden = true;
-    c.domElement.after(el);
     this.ctrl.set(field, c);
-    this.errorEls.set(field, el);
+    this.errorEls.set(field, errorSlot(c.domElement, `bi-err-${field.replace('.', '-')}`));
   }
 
   refreshVisibility(): void {

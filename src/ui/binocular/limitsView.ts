@@ -20,6 +20,7 @@ import { DASH, num, withUnit } from '../format.ts';
 import type { BinocularComputed } from './compute.ts';
 import { EYE_NAMES, type Side } from './form.ts';
 import { nasalSign, offsetWords } from './words.ts';
+import { el } from '../resultsPane.ts';
 
 const NS = 'http://www.w3.org/2000/svg';
 const OUTLINE_DIRECTIONS = 72;
@@ -29,13 +30,6 @@ const BLANK_ALLOWANCE_MM = 2;
 function svg<K extends keyof SVGElementTagNameMap>(tag: K, attrs: Record<string, string | number>): SVGElementTagNameMap[K] {
   const e = document.createElementNS(NS, tag);
   for (const [k, v] of Object.entries(attrs)) e.setAttribute(k, String(v));
-  return e;
-}
-
-function el<K extends keyof HTMLElementTagNameMap>(tag: K, cls?: string, text?: string): HTMLElementTagNameMap[K] {
-  const e = document.createElement(tag);
-  if (cls) e.className = cls;
-  if (text !== undefined) e.textContent = text;
   return e;
 }
 

@@ -18,13 +18,7 @@ import { type BinocularForm, type FormField, docFromForm, fieldName, fieldOfPath
 import { LimitsView } from './limitsView.ts';
 import { BinocularPanel } from './panel.ts';
 import { isFailed } from './words.ts';
-
-function el<K extends keyof HTMLElementTagNameMap>(tag: K, cls?: string, text?: string): HTMLElementTagNameMap[K] {
-  const e = document.createElement(tag);
-  if (cls) e.className = cls;
-  if (text !== undefined) e.textContent = text;
-  return e;
-}
+import { el } from '../resultsPane.ts';
 
 export class BinocularWorkspace {
   readonly root: HTMLElement;

@@ -1,4 +1,4 @@
-/** Printing helpers for the CLI: the JSON answer shape of DESIGN §9 and readable tables. */
+/** Printing helpers for the CLI: the JSON answer shape of docs/cli.md and readable tables. */
 import type { Answer, FourAnswers } from '../optics/index.ts';
 import { isFailure } from '../optics/index.ts';
 
@@ -6,9 +6,9 @@ export const CAUTION =
   'Decentra is a computation aid. Verify prism on the finished spectacles with a focimeter, and defer to ' +
   'local regulations and licensed professional judgement.';
 
-/** The DESIGN §9 shape of one answer: the described prism, or the failure. */
+/** The docs/cli.md ("`--json` output") shape of one answer: the described prism, or the failure. */
 export function answerJson(a: Answer): object {
-  // DESIGN §9 names three failures; a ray that leaves through the lens edge has no
+  // docs/cli.md names three failures; a ray that leaves through the lens edge has no
   // thickness of lens behind its exit point, so it is reported as a geometry failure
   if (isFailure(a)) return { failure: a.failure === 'edge' ? 'geometry' : a.failure, message: a.message };
   return {

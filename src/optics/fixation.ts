@@ -1,5 +1,5 @@
 /**
- * Where the eye looks through the lens for a given target (shared/DESIGN.md §8): the visual
+ * Where the eye looks through the lens for a given target (docs/binocular.md): the visual
  * point whose exact line of sight, traced from the centre of rotation through the lens, leaves
  * towards the target. Solved by a 2-D Newton iteration on the exact trace (Jacobian by finite
  * differences), started from the straight line from the centre of rotation to the target.

@@ -1,5 +1,6 @@
 /**
- * Lens form from a prescription (shared/DESIGN.md §5).
+ * Lens form from a prescription (docs/conventions.md, "The lens frame" and "Surfaces: the sign
+ * of a curvature").
  *
  * Lens frame: origin at the back vertex, z along the optical axis towards the object, x and y
  * as in the wearer frame; the front vertex at z = t. True surface powers in dioptres:

@@ -1,7 +1,8 @@
 /**
  * Dioptric power matrices of sphero-cylinders (Long, Am J Optom Physiol Opt 1976;53:27-33):
  *   F = [[S + C sin²θ, -C sinθ cosθ], [-C sinθ cosθ, S + C cos²θ]],  eigenvalues S and S + C.
- * Angles are counter-clockwise from +x as seen facing the wearer (shared/DESIGN.md §4), the
+ * Angles are counter-clockwise from +x as seen facing the wearer (docs/conventions.md, "The
+ * wearer frame"), the
  * same for both eyes. Powers in dioptres. Off the per-ray path: small arrays are fine here.
  */
 

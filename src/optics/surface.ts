@@ -1,7 +1,7 @@
 /**
  * Refracting surfaces stored by vertex curvature: plane, sphere, conic asphere, toric.
  *
- * Frame (shared/DESIGN.md §5, docs/conventions.md): each surface has a local frame with its
+ * Frame (docs/conventions.md, "The lens frame"; docs/method.md, "Surface models"): each surface has a local frame with its
  * vertex at the origin, z along the lens's optical axis towards the object (+z), x and y as
  * in the wearer frame. The surface is z = -sag(x, y): a positive curvature κ = 1/R means the
  * surface is convex towards +z, its centre of curvature on the eye side at z = -R.

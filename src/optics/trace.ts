@@ -1,12 +1,13 @@
 /**
- * Exact real-ray traces along the line of sight and at a focimeter (shared/DESIGN.md §7).
+ * Exact real-ray traces along the line of sight and at a focimeter (docs/method.md, "The four
+ * answers", 3 and 4).
  *
  * All positions and directions are in the LENS frame (lens.ts): origin at the back vertex,
  * z towards the object. The traces run in reverse, from the eye side out to object space;
  * light travels the other way, so the eye-side light direction is d_eye = -a and the
  * object-side one d_obj = -b for the reverse directions a (eye side) and b (object side).
  *
- * Prism of a deviation (DESIGN §7.3): magnitude 100 tan δ with δ the angle between d_obj and
+ * Prism of a deviation (docs/conventions.md, "The exact prism of a ray"): magnitude 100 tan δ with δ the angle between d_obj and
  * d_eye; base direction the projection of d_eye - d_obj = b - a on the x-y plane.
  *
  * Per-ray path: no allocation. Results go into a caller-owned LineTrace.
@@ -19,7 +20,7 @@ import { Hit, Ray, SagEval } from './surface.ts';
 /** Result of one trace; reuse one instance per loop. */
 export class LineTrace {
   status: RayStatus = RayStatus.ok;
-  /** prism, Δ, components along lens-frame x and y (base direction, DESIGN §6) */
+  /** prism, Δ, components along lens-frame x and y (base direction, docs/conventions.md) */
   px = 0;
   py = 0;
   /** magnitude 100 tan δ, Δ */
@@ -81,7 +82,8 @@ export function lineOfSight(lens: Lens, out: LineTrace): RayStatus {
 
 /**
  * Exact focimeter reading at back-surface point (cx, cy): the instrument's beam meets the
- * back surface along its normal (no bending there) and is bent at the front only (DESIGN §7.4).
+ * back surface along its normal (no bending there) and is bent at the front only
+ * (docs/method.md, "4. Focimeter, exact and first order").
  * The eye-side direction `a` is that normal.
  */
 export function traceFocimeter(lens: Lens, cx: number, cy: number, out: LineTrace): RayStatus {

@@ -2,8 +2,8 @@
  * End-to-end checks of the visualiser in Debian's Chromium with software WebGL.
  *
  * Expected optics are computed here in Node by the project's own engine (readTraceCase,
- * fourAnswers) and by the built command line (`decentra trace --json`, the DESIGN §9
- * contract): these tests check that the page shows what the engine computes for the case on
+ * fourAnswers) and by the built command line (`decentra trace --json`, the JSON
+ * output of docs/cli.md): these tests check that the page shows what the engine computes for the case on
  * screen, not the engine itself (tests/reference does that against published values).
  */
 import { type Page, expect, test } from '@playwright/test';
@@ -93,7 +93,7 @@ test('changing controls updates the panel to the engine values (rule-based lens,
   // the lens data: centre thickness as the engine solved it
   const ct = Number(await page.locator('[data-q="ct"]').getAttribute('data-value'));
   expect(ct).toBeCloseTo(lens.ctMm, 9);
-  // horizontal base words for the right eye follow DESIGN §6 (x < 0 is base out)
+  // horizontal base words for the right eye follow docs/conventions.md (x < 0 is base out)
   const hRow = page.locator('[data-answer="exact"] td').first();
   await expect(hRow).toContainText(a.exact.horizontal.base === 'in' ? 'base in' : 'base out');
   await expectNoNonFinite(page);
@@ -124,7 +124,7 @@ test('the panel agrees with `decentra trace --json` for the same inputs', async 
     ...expectPrism(page, 'exact', cli.exact!), ...expectPrism(page, 'focimeter', cli.focimeter!),
     panelValue(page, 'error', 'percent').then((v) => expect(v).toBeCloseTo(cli.error.percent, 9)),
   ]);
-  // left eye, minus lens, visual point nasal (x < 0 for the left eye): base in, as in DESIGN §6
+  // left eye, minus lens, visual point nasal (x < 0 for the left eye): base in, as in docs/conventions.md
   await expect(page.locator('[data-answer="exact"] td').first()).toContainText(`base ${cli.exact!.horizontal.base}`);
 });
 
@@ -134,7 +134,7 @@ test('keyboard: arrow keys step a field and the panel follows', async ({ page })
   await field(page, 'sphere').focus();
   await page.keyboard.press('ArrowUp');
   await expect(field(page, 'sphere')).toHaveValue('8.25');
-  // Prentice horizontal = |F x| / 10 for a sphere: 8.25 D at 8 mm is 6.60 Δ (DESIGN §6)
+  // Prentice horizontal = |F x| / 10 for a sphere: 8.25 D at 8 mm is 6.60 Δ (docs/method.md)
   await expect(page.locator('[data-answer="prentice"] [data-q="h"]')).toHaveText('6.60 Δ');
   expect(await panelValue(page, 'prentice', 'h')).not.toBeCloseTo(before, 6);
   await page.keyboard.press('Tab');
@@ -176,7 +176,7 @@ test('dragging the visual point in the 3-D view moves it', async ({ page }) => {
   for (let i = 1; i <= 8; i++) await page.mouse.move(h.x + 8 * i, h.y - 3 * i);
   await page.mouse.up();
   const c = await D(page).viewCase();
-  // front view: x to the right and y up on screen (DESIGN §4)
+  // front view: x to the right and y up on screen (docs/conventions.md, "The wearer frame")
   expect(Number(c.x)).toBeGreaterThan(10);
   expect(Number(c.y)).toBeGreaterThan(-4);
   await expect(field(page, 'x')).toHaveValue(c.x!);
@@ -275,7 +275,7 @@ test('rebuilding the lens and the scene 20 times leaves renderer memory at its b
     }
     return seen;
   });
-  // the panel followed every lens: Prentice horizontal = S x / 10 at x = 8 mm (DESIGN §6)
+  // the panel followed every lens: Prentice horizontal = S x / 10 at x = 8 mm (docs/method.md)
   expect(shown[19]).toBe(`${((4 + 19 * 0.25) * 0.8).toFixed(2)} Δ`);
   expect(new Set(shown).size).toBe(20);
   expect(await D(page).memory()).toEqual(base);

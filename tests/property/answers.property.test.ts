@@ -9,7 +9,7 @@ import { type Answer, type Eye, Lens, type LensSpec, OpticsError, fourAnswers, i
 
 // Source of the symmetry properties: the mirror and point symmetry of the lens geometry
 // (a lens of revolution is symmetric under (x, y) -> (-x, -y); mirroring x -> -x maps a
-// cylinder axis θ to 180° - θ); the labels follow DESIGN §6 (nasal is +x for the right eye,
+// cylinder axis θ to 180° - θ); the labels follow docs/conventions.md (nasal is +x for the right eye,
 // -x for the left).
 
 const specArb = fc.record({

@@ -9,9 +9,8 @@ import { InputError } from '../../src/case/input.ts';
 import { type FieldKey, LIMITS, type RawFields, readTraceCase } from '../../src/case/lensCase.ts';
 import { fourAnswers } from '../../src/optics/index.ts';
 
-// Source: the project rules ("Bad input gets a clear error naming the value and the reason";
-// "No NaN or Infinity ever reaches a screen or a file") and the errors-name-the-argument habit
-// of mathjs (shared STYLE). Labels carry brackets so one field's label is never part of another's.
+// Source: DEVELOPERS.md house rules (errors "each naming the value and the reason"; "No NaN or
+// Infinity reaches a screen or a file") and the errors-name-the-argument habit of mathjs. Labels carry brackets so one field's label is never part of another's.
 const label = (k: FieldKey): string => `«${k}»`;
 
 type Q = 'power' | 'angle' | 'length' | 'plain';

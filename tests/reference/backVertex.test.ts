@@ -6,7 +6,7 @@ import { describe, expect, test } from 'vitest';
 import { Lens, backVertexPower, equivalentPower } from '../../src/optics/index.ts';
 
 export const source =
-  'worked back-vertex-power problems of an opticianry education site (project REFERENCES, confidence H); ' +
+  'worked back-vertex-power problems of an opticianry education site; ' +
   'formula Fv = F1 / (1 - (t/n) F1) + F2 (Jalie, The Principles of Ophthalmic Lenses)';
 /** The published answers are rounded to 0.01 D: half a unit in the last place. */
 export const tolerance = 0.005;

@@ -131,7 +131,7 @@ describe("thin-lens limit: first-order equals Prentice at t = 0, and exact/Prent
     { sphereD: -6, cylD: -2, axisDeg: 25, index: 1.6, frontD: 3 },
     { sphereD: 2, cylD: -1.5, axisDeg: 100, index: 1.74, frontD: 6, frontConic: -1 },
   ];
-  test('t = 0: the first-order matrix is the back vertex power matrix (DESIGN §7.2)', () => {
+  test('t = 0: the first-order matrix is the back vertex power matrix (docs/method.md, answer 2)', () => {
     for (const f of forms) {
       const a = fourAnswers(new Lens({ ...f, ctMm: 0 }), CR, 7, -4, 'R');
       expect(Math.abs(a.paraxial.x - a.prentice.x)).toBeLessThan(1e-12);

@@ -1,6 +1,7 @@
 /**
  * The engine's exact line-of-sight and focimeter prism against the independent 40-digit
- * reference of ./independent.ts (written from DESIGN §5-§7 and textbook optics), its
+ * reference of ./independent.ts (written from docs/method.md and docs/conventions.md and
+ * textbook optics), its
  * first-order values against an independent (y, nu) matrix trace, and Prentice against a
  * general-purpose matrix product (mathjs multiply(F, c)).
  */
@@ -10,7 +11,8 @@ import { type Answer, type FourAnswers, Lens, fourAnswers, isFailure } from '../
 import { type RefAnswer, type RefCase, randomCase, refExact, refFocimeter, refParaxial, rng } from './independent.ts';
 
 export const source =
-  'independent 40-digit real-ray trace (tests/reference/independent.ts, from DESIGN §5-§7, Snell\'s law as in ' +
+  'independent 40-digit real-ray trace (tests/reference/independent.ts, from docs/method.md and ' +
+  'docs/conventions.md and textbook optics, Snell\'s law as in ' +
   'Hecht, Optics ch. 4, Illinois root finding) and an independent paraxial (y, nu) matrix trace';
 /** The reference is good to ~1e-25 Δ; this is the engine's double-precision budget. */
 export const tolerance = 1e-9;
@@ -53,7 +55,7 @@ function agree(engine: Answer, ref: RefAnswer, what: string): boolean {
   expect(Math.abs(engine.x - ref.x), `${what} x: engine ${engine.x}, reference ${ref.x}`).toBeLessThanOrEqual(tolerance);
   expect(Math.abs(engine.y - ref.y), `${what} y: engine ${engine.y}, reference ${ref.y}`).toBeLessThanOrEqual(tolerance);
   expect(Math.abs(engine.magnitude - ref.magnitude)).toBeLessThanOrEqual(tolerance);
-  // base labels from DESIGN §6, judged away from a zero component
+  // base labels from docs/conventions.md, judged away from a zero component
   if (Math.abs(ref.x) > 1e-6) expect(engine.horizontal.base).toBe(ref.horizontal);
   if (Math.abs(ref.y) > 1e-6) expect(engine.vertical.base).toBe(ref.vertical);
   return true;
@@ -73,8 +75,8 @@ describe(`exact and focimeter prism vs the independent reference (${source})`, (
 
   test('engine and reference give the same failure kind (tir / miss / geometry) wherever both fail', () => {
     // A ray whose exit point on the front has no back surface behind it has left the lens
-    // body before reaching that point: the reference calls that 'geometry' (DESIGN §9: "a
-    // visual point where the lens has no thickness"), whatever the front would have done.
+    // body before reaching that point: the reference calls that 'geometry' (docs/method.md, "Status
+    // codes": "the lens has no thickness where the ray leaves it"), whatever the front would have done.
     const mismatches: string[] = [];
     cases.forEach((c, i) => {
       const o = outcome(i);
@@ -87,7 +89,7 @@ describe(`exact and focimeter prism vs the independent reference (${source})`, (
     expect(mismatches).toEqual([]);
   });
 
-  test('the case set spans what the brief asks: ±20 D, cyl to -4, conic fronts, 20 mm, both eyes', () => {
+  test('the case set spans the working range: ±20 D, cyl to -4, conic fronts, 20 mm, both eyes', () => {
     const s = cases.map((c) => c.sphereD);
     expect(Math.min(...s)).toBeLessThan(-17);
     expect(Math.max(...s)).toBeGreaterThan(17);
@@ -118,7 +120,7 @@ describe('hand-picked awkward cases vs the independent reference', () => {
   });
 });
 
-describe('first-order (paraxial) prism vs an independent (y, nu) 4x4 matrix trace (DESIGN §7.2, §7.4)', () => {
+describe('first-order (paraxial) prism vs an independent (y, nu) 4x4 matrix trace (docs/method.md, answers 2 and 4)', () => {
   // Linear algebra in doubles on both sides: 1e-11 Δ.
   test.each(cases.slice(0, 60).map((c, i) => [i, label(c), c] as const))('case %i: %s', (_i, _l, c) => {
     const a = fourAnswers(lensOf(c), c.crMm, c.xMm, c.yMm, c.eye);
@@ -134,7 +136,7 @@ describe("Prentice vs mathjs multiply(F, c) with F from Long's power matrix (Lon
   test.each(cases.slice(0, 60).map((c, i) => [i, label(c), c] as const))('case %i: %s', (_i, _l, c) => {
     const th = (c.axisDeg * Math.PI) / 180;
     const sn = Math.sin(th), cs = Math.cos(th);
-    // DESIGN §6 / REFERENCES: F = [[S + C sin²θ, -C sinθ cosθ], [-C sinθ cosθ, S + C cos²θ]]
+    // Long 1976 (docs/conventions.md, "Power matrix"): F = [[S + C sin²θ, -C sinθ cosθ], [-C sinθ cosθ, S + C cos²θ]]
     const F = matrix([
       [c.sphereD + c.cylD * sn * sn, -c.cylD * sn * cs],
       [-c.cylD * sn * cs, c.sphereD + c.cylD * cs * cs],

@@ -1,12 +1,12 @@
 /**
  * An INDEPENDENT reference implementation of the exact line-of-sight and focimeter prism
- * and of the first-order (paraxial) prism, written from the project's design notes
- * (DESIGN §5 lens form, §6 power matrix and base labels, §7 the four answers) and from
+ * and of the first-order (paraxial) prism, written from docs/method.md and
+ * docs/conventions.md (lens form, power matrix and base labels, the four answers) and
  * textbook optics, without the engine's code. It exists only to check the engine.
  *
  * Deliberate differences from the engine, so that a shared mistake is unlikely:
- * - frame: the wearer frame of DESIGN §4 (centre of rotation at the origin, back vertex at
- *   z = s, front vertex at z = s + t), not the engine's lens frame (back vertex at 0);
+ * - frame: the wearer frame of docs/conventions.md (centre of rotation at the origin, back
+ *   vertex at z = s, front vertex at z = s + t), not the engine's lens frame (back vertex at 0);
  * - arithmetic: mathjs BigNumber with 40 significant digits (decimal.js underneath);
  * - surfaces: one sag function z = z_vertex - sag(x, y) per surface; every intersection
  *   (sphere, conic and toric alike) is found by marching along the ray to the first sign
@@ -45,7 +45,7 @@ const HUNDRED = big(100);
 const THOUSAND = big(1000);
 const PI = M.pi as unknown as B;
 
-/** Inputs of one case, as a dispenser gives them (DESIGN §5, §9). */
+/** Inputs of one case, as a dispenser gives them (docs/cli.md, `decentra trace`). */
 export interface RefCase {
   sphereD: number;
   cylD: number;
@@ -98,9 +98,10 @@ export interface RefLens {
 }
 
 /**
- * The lens form of DESIGN §5: front spherical (or conic) of true power F1 = (n - 1) κ1;
- * back toric with F2 = Fv - F1 / (1 - (t/n) F1) in each principal meridian, Fv = S along the
- * cylinder axis and S + C at 90° to it; κ2 = F2 / (1 - n).
+ * The lens form of docs/conventions.md ("Surfaces: the sign of a curvature"): front spherical
+ * (or conic) of true power F1 = (n - 1) κ1; back toric with F2 = Fv - F1 / (1 - (t/n) F1) in
+ * each principal meridian, Fv = S along the cylinder axis and S + C at 90° to it;
+ * κ2 = F2 / (1 - n).
  */
 export function refLens(c: RefCase): RefLens {
   const n = big(c.index);
@@ -129,7 +130,10 @@ export function refLens(c: RefCase): RefLens {
   };
 }
 
-/** Conic sag κ r² / (1 + sqrt(1 - (1 + k) κ² r²)) (DESIGN §5); null outside its domain. */
+/**
+ * Conic sag κ r² / (1 + sqrt(1 - (1 + k) κ² r²)) (docs/method.md, "Sphere and conic of
+ * revolution"); null outside its domain.
+ */
 function conicSag(k: B, conic: B, r2: B): B | null {
   const q2 = ONE.minus(ONE.plus(conic).times(k).times(k).times(r2));
   if (q2.isNeg()) return null;
@@ -249,9 +253,10 @@ function thickness(L: RefLens, x: B, y: B): B | null {
 }
 
 /**
- * Prism of DESIGN §7.3 from the reverse eye-side direction a and the reverse object-side
- * direction b (light travels the other way: d_eye = -a, d_obj = -b): 100 tan δ, δ the angle
- * between them, towards the x-y projection of d_eye - d_obj = b - a; labels per DESIGN §6.
+ * Prism of docs/conventions.md ("The exact prism of a ray") from the reverse eye-side
+ * direction a and the reverse object-side direction b (light travels the other way:
+ * d_eye = -a, d_obj = -b): 100 tan δ, δ the angle between them, towards the x-y projection
+ * of d_eye - d_obj = b - a; labels per docs/conventions.md (base-label table).
  */
 function prismOf(a: V, b: V, eye: 'R' | 'L'): RefAnswer {
   const cx = a[1].times(b[2]).minus(a[2].times(b[1]));
@@ -266,7 +271,7 @@ function prismOf(a: V, b: V, eye: 'R' | 'L'): RefAnswer {
   const px = h.isZero() ? ZERO : mag.times(hx).div(h);
   const py = h.isZero() ? ZERO : mag.times(hy).div(h);
   const x = px.toNumber(), y = py.toNumber();
-  // right eye: +x is towards the nose (base in); left eye: -x is (DESIGN §6)
+  // right eye: +x is towards the nose (base in); left eye: -x is (docs/conventions.md)
   const nasal = eye === 'R' ? x > 0 : x < 0;
   return {
     x, y, magnitude: mag.toNumber(),
@@ -275,7 +280,7 @@ function prismOf(a: V, b: V, eye: 'R' | 'L'): RefAnswer {
   };
 }
 
-/** From a back-surface point along d inside the glass, out through the front (DESIGN §7.3-4). */
+/** From a back-surface point along d inside the glass, out through the front (docs/method.md, answers 3-4). */
 function outThroughFront(L: RefLens, pb: V, inside: V, a: V, eye: 'R' | 'L'): RefAnswer {
   const thB = thickness(L, pb[0], pb[1]);
   if (thB === null) return { failure: 'miss' };
@@ -291,7 +296,7 @@ function outThroughFront(L: RefLens, pb: V, inside: V, a: V, eye: 'R' | 'L'): Re
   return prismOf(a, b, eye);
 }
 
-/** Exact line of sight (DESIGN §7.3): from the centre of rotation through the visual point. */
+/** Exact line of sight (docs/method.md, answer 3): from the centre of rotation through the visual point. */
 export function refExact(c: RefCase, L: RefLens = refLens(c)): RefAnswer {
   const x = big(c.xMm), y = big(c.yMm);
   const zb = zAt(L.back, x, y);
@@ -306,7 +311,7 @@ export function refExact(c: RefCase, L: RefLens = refLens(c)): RefAnswer {
   return outThroughFront(L, pb, inside, a, c.eye);
 }
 
-/** Exact focimeter reading (DESIGN §7.4): along the back-surface normal, bent at the front only. */
+/** Exact focimeter reading (docs/method.md, answer 4): along the back-surface normal, bent at the front only. */
 export function refFocimeter(c: RefCase, L: RefLens = refLens(c)): RefAnswer {
   const x = big(c.xMm), y = big(c.yMm);
   const zb = zAt(L.back, x, y);
@@ -318,7 +323,7 @@ export function refFocimeter(c: RefCase, L: RefLens = refLens(c)): RefAnswer {
 
 // ---------------------------------------------------------------------------------------
 // Paraxial (first-order) prism: a (y, nu) trace with 4x4 transfer matrices (mathjs), per
-// DESIGN §7.2. State [y; nu] with y (m) and nu = n·u (u the angle, rad) as 2-vectors.
+// docs/method.md, answer 2. State [y; nu] with y (m) and nu = n·u (u the angle, rad) as 2-vectors.
 // Refraction: nu' = nu - F y; translation by reduced thickness d = t/n: y' = y + d nu.
 // A surface's power is the same for light in either direction, so the trace can run from the
 // eye outwards. The prism is 100 (u_object - u_eye) in Δ (the deviation of the reversed ray,

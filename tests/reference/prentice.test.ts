@@ -9,8 +9,9 @@ import { type Eye, Lens, describePrism, fourAnswers, horizontalComponent } from 
 
 export const source =
   "Prentice's rule P = c F (Prentice, Arch Ophthalmol 1890); dioptric power matrix (Long, Am J Optom " +
-  'Physiol Opt 1976;53:27-33); 360° base notation (ISO 8429:1986); worked checks in the project DESIGN §6 ' +
-  'and REFERENCES (opticianry course notes on prism base notation; a published exam answer on decentring)';
+  'Physiol Opt 1976;53:27-33); 360° base notation (ISO 8429:1986); worked checks in docs/conventions.md ' +
+  '(Prism: sign, base labels and the 360° notation); opticianry course notes on prism base notation; ' +
+  'a published exam answer on decentring';
 /** Prentice is linear arithmetic: only rounding separates the engine from the hand working. */
 export const tolerance = 1e-12;
 
@@ -21,15 +22,15 @@ function lensFor(sphereD: number, cylD = 0, axisDeg = 0): Lens {
 
 export const cases = [
   {
-    what: 'DESIGN §6: right eye -6.00 D, visual point 2 mm nasal of the OC -> 1.20 Δ base in',
+    what: 'docs/conventions.md: right eye -6.00 D, visual point 2 mm nasal of the OC -> 1.20 Δ base in',
     eye: 'R' as Eye, s: -6, c: 0, axis: 0, x: 2, y: 0, h: { amount: 1.2, base: 'in' }, v: { amount: 0, base: null },
   },
   {
-    what: 'DESIGN §6: +5.00 D, visual point 3 mm below the OC -> 1.50 Δ base up',
+    what: 'docs/conventions.md: +5.00 D, visual point 3 mm below the OC -> 1.50 Δ base up',
     eye: 'R' as Eye, s: 5, c: 0, axis: 0, x: 0, y: -3, h: { amount: 0, base: null }, v: { amount: 1.5, base: 'up' },
   },
   {
-    what: 'DESIGN §6, left eye: -6.00 D 2 mm nasal (x = -2 mm for the left eye) -> 1.20 Δ base in',
+    what: 'docs/conventions.md base-label table, left eye: -6.00 D 2 mm nasal (x = -2 mm for the left eye) -> 1.20 Δ base in',
     eye: 'L' as Eye, s: -6, c: 0, axis: 0, x: -2, y: 0, h: { amount: 1.2, base: 'in' }, v: { amount: 0, base: null },
   },
 ];
@@ -80,7 +81,7 @@ describe(`Prentice's rule and notation (${source})`, () => {
     expect(Math.abs(a.baseAngle - 257.7373)).toBeLessThan(1e-4);
   });
 
-  test('plano-cylinder +2.00 x 90 gives prism only perpendicular to its axis (REFERENCES, H)', () => {
+  test('plano-cylinder +2.00 x 90 gives prism only perpendicular to its axis (power matrix, Long 1976)', () => {
     // Hand working: θ = 90°: F = [[0 + 2·1, 0], [0, 0 + 2·0]] = [[2, 0], [0, 0]]
     // c = (0.4, 0.3) cm -> p = -(0.8, 0): 0.80 Δ base out (right eye), nothing vertical
     const a = fourAnswers(lensFor(0, 2, 90), 27, 4, 3, 'R').prentice;
@@ -91,7 +92,7 @@ describe(`Prentice's rule and notation (${source})`, () => {
   });
 });
 
-describe('360° base notation (ISO 8429; REFERENCES: opticianry course notes, confidence H)', () => {
+describe('360° base notation (ISO 8429; opticianry course notes)', () => {
   // The published angles are whole degrees: half a degree.
   test('right eye 1.5 Δ base up with 2 Δ base in = 2.5 Δ at 37°', () => {
     const p = describePrism(horizontalComponent(2, 'in', 'R'), 1.5, 'R');
@@ -120,7 +121,7 @@ describe('360° base notation (ISO 8429; REFERENCES: opticianry course notes, co
   });
 });
 
-describe('decentring for a prescribed prism (REFERENCES: published exam answer, H; c = F⁻¹ P)', () => {
+describe('decentring for a prescribed prism (published exam answer; c = F⁻¹ P)', () => {
   // +4.00 D both eyes, 2 Δ base out each eye -> decentre 5 mm out.
   // Solve p = -F c for c with a general-purpose library (mathjs inv), then check the engine's
   // Prentice value at that visual point and the direction of the decentration.

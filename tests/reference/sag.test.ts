@@ -7,7 +7,7 @@ import { SagEval, Surface } from '../../src/optics/index.ts';
 
 export const source =
   'sag of a sphere s = r - sqrt(r² - y²) and of a conic z = c r² / (1 + sqrt(1 - (1 + k) c² r²)) ' +
-  '(standard optics, e.g. Jalie, The Principles of Ophthalmic Lenses; project REFERENCES, confidence H)';
+  '(standard optics, e.g. Jalie, The Principles of Ophthalmic Lenses)';
 /** Relative to the sag, near double precision; the formulas are evaluated directly. */
 export const tolerance = 1e-12;
 

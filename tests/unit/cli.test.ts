@@ -1,4 +1,4 @@
-// The decentra command line: the DESIGN §9 contract (flags, JSON shape, failures, errors).
+// The decentra command line: the contract of docs/cli.md (flags, JSON shape, failures, errors).
 import { execFileSync, spawnSync } from 'node:child_process';
 import { existsSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
@@ -14,7 +14,7 @@ function traceJson(args: string[]): any {
   return JSON.parse(r.out);
 }
 
-describe('decentra trace --json (DESIGN §9)', () => {
+describe('decentra trace --json (docs/cli.md)', () => {
   it('prints one object with exactly the contract keys', () => {
     const j = traceJson(CONTRACT);
     expect(Object.keys(j).sort()).toEqual(['error', 'exact', 'eye', 'focimeter', 'input', 'paraxial', 'prentice']);
@@ -35,7 +35,7 @@ describe('decentra trace --json (DESIGN §9)', () => {
   });
 
   it('Prentice on the design example: +8.00 D, 10 mm towards the wearer\'s left of the OC, right eye = 8 Δ base out', () => {
-    // DESIGN §6: p = -F c, c = +1 cm along x (nasal for the right eye) -> px = -8: base out
+    // docs/conventions.md (prism signs): p = -F c, c = +1 cm along x (nasal for the right eye) -> px = -8: base out
     const j = traceJson(CONTRACT);
     expect(j.prentice.x).toBeCloseTo(-8, 12);
     expect(j.prentice.horizontal).toEqual({ amount: 8, base: 'out' });
@@ -68,14 +68,14 @@ describe('decentra trace --json (DESIGN §9)', () => {
 
   it('left eye: base labels follow the eye', () => {
     const j = traceJson(['--sphere', '-6', '--index', '1.5', '--front', '2', '--ct', '2', '--x', '-2', '--eye', 'L', '--json']);
-    // DESIGN §6: left eye, px < 0 is base in; -6 D with c = -0.2 cm: px = -(-6)(-0.2) = -1.2
+    // docs/conventions.md (base labels): left eye, px < 0 is base in; -6 D with c = -0.2 cm: px = -(-6)(-0.2) = -1.2
     expect(j.prentice.horizontal).toEqual({ amount: expect.closeTo(1.2, 12), base: 'in' });
   });
 
   it('converts a value typed in cm, never taking it as mm', () => {
     const a = traceJson(['--sphere', '5', '--index', '1.5', '--front', '8', '--ct', '4', '--y', '-0.3cm', '--json']);
     expect(a.input.y).toBeCloseTo(-3, 12);
-    expect(a.prentice.vertical.amount).toBeCloseTo(1.5, 12); // DESIGN §6: +5 D, 3 mm below: 1.5 Δ base up
+    expect(a.prentice.vertical.amount).toBeCloseTo(1.5, 12); // Prentice 1890: +5 D, 3 mm below: 1.5 Δ base up
     expect(a.prentice.vertical.base).toBe('up');
   });
 });

@@ -5,8 +5,9 @@
 import { describe, expect, test } from 'vitest';
 import { InputError, inRange, readNumber } from '../../src/case/input.ts';
 
-// Source: DESIGN §3 ("A decentration given in cm is never silently taken as mm"); SI prefixes
-// (1 cm = 10 mm, 1 m = 1000 mm); the errors-name-the-argument habit of mathjs (shared STYLE).
+// Source: docs/conventions.md, "Units" ("a value given in cm is converted, never taken as
+// mm"); SI prefixes (1 cm = 10 mm, 1 m = 1000 mm); errors that name the value and the reason
+// (DEVELOPERS.md, "A miss is a status, not an exception"; the habit of mathjs).
 
 /** Run f and return the InputError it throws (fails the test if it throws nothing else). */
 function refusal(f: () => unknown): InputError {

@@ -1,7 +1,8 @@
 /**
- * The engine is pure (DESIGN §2, project rules): src/optics imports nothing from three,
- * lil-gui or the DOM. Allowed: sibling engine modules, and mathjs (DESIGN §2 gives it the
- * engine's off-hot-path matrix and unit work).
+ * The engine is pure (DEVELOPERS.md, "Layout" and "The engine is pure"): src/optics imports
+ * nothing from three, lil-gui or the DOM. Allowed: sibling engine modules, and mathjs
+ * (DEVELOPERS.md, "Toolchain choices": it earns its place off the hot path, for units and
+ * matrix work).
  */
 import { describe, expect, test } from 'vitest';
 import { readFileSync, readdirSync } from 'node:fs';

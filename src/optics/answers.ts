@@ -1,5 +1,5 @@
 /**
- * The four answers for one visual point (shared/DESIGN.md §7), as described prisms:
+ * The four answers for one visual point (docs/method.md, "The four answers"), as described prisms:
  * Prentice, first-order thick lens at the eye, exact line of sight, focimeter (exact, with
  * its first-order value beside it), and the Prentice error.
  *
@@ -10,8 +10,8 @@ import { FAILURE_NAMES, type FailureName, RayStatus, failureMessage } from './er
 import { eyePrismOffAxis, focimeterMatrix, prismFromMatrix } from './firstOrder.ts';
 import type { Lens } from './lens.ts';
 import { type Eye, type PrismDescription, describePrism } from './notation.ts';
-import { Placement, placedLineOfSight } from './placement.ts';
-import { LineTrace, traceFocimeter } from './trace.ts';
+import { Placement, placedLineOfSight, toWearerPrism } from './placement.ts';
+import { LineTrace, setPrismComponents, traceFocimeter } from './trace.ts';
 
 export interface TraceFailure {
   failure: FailureName;
@@ -60,24 +60,31 @@ export function fourAnswers(lens: Lens, crDistanceMm: number, cxMm: number, cyMm
 /**
  * The four answers at back-surface point (cxMm, cyMm) of a placed lens (lens frame, relative
  * to the optical centre). The exact line of sight starts at the eye's centre of rotation
- * wherever the placement puts it; its prism components are in the wearer frame. Prentice,
- * first-order and focimeter values are lens properties in the lens frame (the first-order
- * value takes the centre of rotation's position in that frame, docs/method.md).
+ * wherever the placement puts it. All four are reported in the wearer frame: the exact
+ * trace's deviation is re-taken there, and Prentice's, the first-order and the focimeter
+ * values (lens properties, computed in the lens frame; the first-order value takes the centre
+ * of rotation's position in that frame, docs/method.md) are turned into it by toWearerPrism
+ * (docs/conventions.md, "Tilted and wrapped lenses"). For an untilted lens the two frames agree.
  */
 export function fourAnswersPlaced(lens: Lens, pl: Placement, cxMm: number, cyMm: number, eye: Eye): FourAnswers {
   const v = { x: 0, y: 0 };
+  const described = (): PrismDescription => {
+    toWearerPrism(pl, v.x, v.y, v);
+    return describePrism(v.x, v.y, eye);
+  };
   prismFromMatrix(lens.vertexMatrix, cxMm, cyMm, v);
-  const prentice = describePrism(v.x, v.y, eye);
+  const prentice = described();
   eyePrismOffAxis(lens, pl.crLensX, pl.crLensY, -pl.crLensZ, cxMm, cyMm, v);
-  const paraxial = describePrism(v.x, v.y, eye);
+  const paraxial = described();
   prismFromMatrix(focimeterMatrix(lens), cxMm, cyMm, v);
-  const focimeterFirstOrder = describePrism(v.x, v.y, eye);
+  const focimeterFirstOrder = described();
 
   const exactTrace = new LineTrace();
   const s1 = placedLineOfSight(lens, pl, cxMm, cyMm, exactTrace);
   const exact: Answer = s1 === RayStatus.ok ? describePrism(exactTrace.px, exactTrace.py, eye) : failureOf(s1);
   const focimeterTrace = new LineTrace();
   const s2 = traceFocimeter(lens, cxMm, cyMm, focimeterTrace);
+  if (s2 === RayStatus.ok && pl.tilted) setPrismComponents(focimeterTrace, pl.r);
   const focimeter: Answer = s2 === RayStatus.ok ? describePrism(focimeterTrace.px, focimeterTrace.py, eye) : failureOf(s2);
 
   return {

@@ -1,5 +1,6 @@
 /**
- * Prentice's rule and the first-order (paraxial) thick-lens prism (shared/DESIGN.md §6-7).
+ * Prentice's rule and the first-order (paraxial) thick-lens prism (docs/conventions.md, "Power
+ * matrix"; docs/method.md, "The four answers", 1, 2 and 4).
  *
  * Both have the form p = -M c with M a 2x2 matrix in dioptres, c the decentration of the
  * visual point from the optical centre and p in prism dioptres towards the base:
@@ -20,6 +21,19 @@ import { type Mat2, IDENTITY, add, mul, scale, scalarMatrix } from './powerMatri
 export function prismFromMatrix(m: Mat2, cxMm: number, cyMm: number, out: { x: number; y: number }): void {
   out.x = -(m[0] * cxMm + m[1] * cyMm) / 10;
   out.y = -(m[2] * cxMm + m[3] * cyMm) / 10;
+}
+
+/**
+ * The inverse of p = -M c: the decentration c (mm) at which the linear rule gives prism p (Δ),
+ * c = -10 M⁻¹ p, into out. Returns false (out untouched) when det M = 0 (no power in one
+ * meridian, e.g. a plano-cylinder: prism only across its axis).
+ */
+export function decentrationFromMatrix(m: Mat2, px: number, py: number, out: { x: number; y: number }): boolean {
+  const dt = m[0] * m[3] - m[1] * m[2];
+  if (Math.abs(dt) < 1e-12) return false;
+  out.x = (-10 * (m[3] * px - m[1] * py)) / dt;
+  out.y = (-10 * (-m[2] * px + m[0] * py)) / dt;
+  return true;
 }
 
 /** Matrix of the first-order prism for a ray through the point whose vergence matrix is K (D). */

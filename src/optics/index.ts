@@ -18,3 +18,5 @@ export * from './limits.ts';
 export * from './tolerances.ts';
 export * from './anisometropia.ts';
 export * from './chromatic.ts';
+export * from './marks.ts';
+export * from './guidance.ts';

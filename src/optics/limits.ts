@@ -7,9 +7,9 @@
  * outwards and a bisection on the exact trace (untilted lens, centre of rotation on the axis).
  */
 import { RayStatus } from './errors.ts';
-import { eyeMatrix, prismFromMatrix } from './firstOrder.ts';
+import { decentrationFromMatrix, eyeMatrix, prismFromMatrix } from './firstOrder.ts';
 import type { Lens } from './lens.ts';
-import { type Mat2, det } from './powerMatrix.ts';
+import type { Mat2 } from './powerMatrix.ts';
 import { LineTrace, lineOfSight } from './trace.ts';
 
 export interface LimitResult {
@@ -92,15 +92,11 @@ export interface PrescribedDecentration {
  * Prentice's c = -F⁻¹ p (det F ≠ 0), and exactly by 2-D Newton on the exact trace from it.
  */
 export function decentrationForPrism(lens: Lens, crMm: number, px: number, py: number): PrescribedDecentration {
-  const f = lens.vertexMatrix;
-  const dt = det(f);
-  let prentice: { x: number; y: number } | null = null;
+  let prentice: { x: number; y: number } | null = { x: 0, y: 0 };
   let prenticeMessage = 'ok';
-  if (Math.abs(dt) < 1e-12) {
+  if (!decentrationFromMatrix(lens.vertexMatrix, px, py, prentice)) {
+    prentice = null;
     prenticeMessage = 'the lens has no power in one meridian (det F = 0): decentration cannot give prism along that meridian';
-  } else {
-    // c (cm) = -F⁻¹ p;  mm = 10 cm
-    prentice = { x: (-10 * (f[3] * px - f[1] * py)) / dt, y: (-10 * (-f[2] * px + f[0] * py)) / dt };
   }
   // Newton from Prentice's answer (or from the centre when there is none)
   let cx = prentice?.x ?? 0, cy = prentice?.y ?? 0;

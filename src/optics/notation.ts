@@ -1,7 +1,8 @@
 /**
- * Prism notation (shared/DESIGN.md §6): components in the wearer frame (x towards the
- * wearer's left, y up), base labels per eye, and 360° base notation (ISO 8429: the angle of
- * the base direction counter-clockwise from the observer's right, seen facing the wearer).
+ * Prism notation (docs/conventions.md, "Prism: sign, base labels and the 360° notation"):
+ * components in the wearer frame (x towards the wearer's left, y up), base labels per eye, and
+ * 360° base notation (ISO 8429: the angle of the base direction counter-clockwise from the
+ * observer's right, seen facing the wearer).
  */
 
 export type Eye = 'R' | 'L';
@@ -67,4 +68,31 @@ export function prismWords(p: PrismDescription, decimals = 2): string {
 /** Words for a prism with its eye: "1.25 Δ base in, 0.50 Δ base up (right eye)". */
 export function prismInWords(p: PrismDescription, eye: Eye, decimals = 2): string {
   return `${prismWords(p, decimals)} (${eye === 'R' ? 'right' : 'left'} eye)`;
+}
+
+/** One prescribed prism as written on a prescription: an amount with a base word, or in 360° notation. */
+export type PrismEntry =
+  | { amount: number; base: 'in' | 'out' | 'up' | 'down' }
+  | { amount: number; angle: number };
+
+/**
+ * The prescribed prism of one eye as signed wearer-frame components (Δ): the vector sum of
+ * its entries (a horizontal and a vertical part, or one 360° entry). Base in is +x for the
+ * right eye and -x for the left; up is +y; 360° angles are counter-clockwise from +x (ISO 8429).
+ */
+export function prescribedComponents(entries: readonly PrismEntry[], eye: Eye, out: { x: number; y: number }): void {
+  let x = 0, y = 0;
+  for (const e of entries) {
+    if ('angle' in e) {
+      const a = (e.angle * Math.PI) / 180;
+      x += e.amount * Math.cos(a);
+      y += e.amount * Math.sin(a);
+    } else if (e.base === 'in' || e.base === 'out') {
+      x += horizontalComponent(e.amount, e.base, eye);
+    } else {
+      y += e.base === 'up' ? e.amount : -e.amount;
+    }
+  }
+  out.x = x;
+  out.y = y;
 }

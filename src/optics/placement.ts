@@ -1,5 +1,5 @@
 /**
- * A lens placed in front of an eye (shared/DESIGN.md §4-5, §8).
+ * A lens placed in front of an eye (docs/conventions.md: the wearer and lens frames, "Tilted and wrapped lenses").
  *
  * Eye frame: the wearer frame with the eye's centre of rotation (CR) at the origin: x towards
  * the wearer's left, y up, z forwards. Lens frame: origin at the back vertex, z along the
@@ -11,10 +11,13 @@
  *   position V is given before tilting (the tilt turns the lens about it).
  *
  * Traces run in the lens frame; prism components are then taken in the eye (wearer) frame.
+ * All four answers of a placed lens are reported in the wearer frame (docs/conventions.md,
+ * "Tilted and wrapped lenses").
  */
 import { RayStatus } from './errors.ts';
 import type { Lens } from './lens.ts';
 import type { Eye } from './notation.ts';
+import { Hit, Ray } from './surface.ts';
 import { LineTrace, lineOfSight, setPrismComponents } from './trace.ts';
 
 export interface PlacementSpec {
@@ -91,4 +94,71 @@ export function placedLineOfSight(lens: Lens, pl: Placement, cx: number, cy: num
   const st = lineOfSight(lens, out);
   if (st === RayStatus.ok && pl.tilted) setPrismComponents(out, pl.r);
   return st;
+}
+
+/**
+ * A lens-frame prism (px, py) (a deviation in the lens's own x-y plane) in the wearer frame:
+ * the same magnitude, with the base direction of its projection on the wearer's x-y plane.
+ * This is the rule the exact trace follows (setPrismComponents), applied to the prisms that
+ * are lens properties (Prentice, first order, focimeter). Identity for an untilted lens.
+ */
+export function toWearerPrism(pl: Placement, px: number, py: number, out: { x: number; y: number }): void {
+  if (!pl.tilted) { out.x = px; out.y = py; return; }
+  const r = pl.r;
+  const hx = r[0]! * px + r[1]! * py, hy = r[3]! * px + r[4]! * py;
+  const h = Math.hypot(hx, hy), m = Math.hypot(px, py);
+  if (h === 0 || m === 0) { out.x = 0; out.y = 0; return; }
+  out.x = (m * hx) / h;
+  out.y = (m * hy) / h;
+}
+
+/** The inverse of toWearerPrism: a wearer-frame prism as a lens-frame one. */
+export function toLensPrism(pl: Placement, wx: number, wy: number, out: { x: number; y: number }): void {
+  if (!pl.tilted) { out.x = wx; out.y = wy; return; }
+  const r = pl.r;
+  // the lens-frame direction whose projection has direction (wx, wy): solve the top-left 2x2
+  const a = r[0]!, b = r[1]!, c = r[3]!, d = r[4]!;
+  const det = a * d - b * c;
+  const lx = (d * wx - b * wy) / det, ly = (-c * wx + a * wy) / det;
+  const l = Math.hypot(lx, ly), m = Math.hypot(wx, wy);
+  if (l === 0 || m === 0) { out.x = 0; out.y = 0; return; }
+  out.x = (m * lx) / l;
+  out.y = (m * ly) / l;
+}
+
+/**
+ * The centration point of a placed lens: where the eye's straight-ahead line (from the centre
+ * of rotation along +z of the eye frame, the pupil in primary gaze) meets the back surface.
+ * `lens` is the lens-frame position (what a focimeter is centred on, and where the line of
+ * sight passes in primary gaze); `wearer` the same point from the optical centre in the wearer
+ * frame (for an untilted lens both are (-ocX, -ocY)). Null if the line misses the surface.
+ */
+export function centrationPoint(lens: Lens, pl: Placement): { lens: { x: number; y: number }; wearer: { x: number; y: number } } | null {
+  const r = pl.r;
+  if (!pl.tilted) {
+    return { lens: { x: -pl.vx, y: -pl.vy }, wearer: { x: -pl.vx, y: -pl.vy } };
+  }
+  const ray = new Ray();
+  // eye-frame +z in the lens frame: the third row of R read as a column (R^T e_z)
+  ray.set(pl.crLensX, pl.crLensY, pl.crLensZ, r[6]!, r[7]!, r[8]!);
+  const hit = new Hit();
+  if (!lens.back.intersect(ray, hit)) return null;
+  const e = pl.toEyePoint(hit.x, hit.y, hit.z);
+  return { lens: { x: hit.x, y: hit.y }, wearer: { x: e.x - pl.vx, y: e.y - pl.vy } };
+}
+
+/** How the optical centre is lowered for pantoscopic tilt (docs/conventions.md). */
+export type TiltDrop = 'none' | 'rule-of-thumb' | 'centre-of-rotation';
+
+/**
+ * The optical-centre drop for a pantoscopic tilt, mm (positive: lower the OC):
+ * 'rule-of-thumb' 1 mm per 2° of tilt (common practice, no source);
+ * 'centre-of-rotation' s·tan(tilt), which puts the centre of rotation on the optical axis
+ * (geometry: the axis through the back vertex at height -drop, tilted by the angle, meets
+ * the centre of rotation s behind it).
+ */
+export function tiltDropMm(rule: TiltDrop, pantoDeg: number, crDistanceMm: number): number {
+  if (rule === 'rule-of-thumb') return pantoDeg / 2;
+  if (rule === 'centre-of-rotation') return crDistanceMm * Math.tan((pantoDeg * Math.PI) / 180);
+  return 0;
 }

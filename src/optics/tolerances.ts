@@ -1,6 +1,11 @@
 /**
  * Tolerance profiles for prism imbalance in mounted spectacles, and verdicts.
  *
+ * The standards judge how well a pair was made and centred: prism measured at the prescribed
+ * centration points against the prism prescribed there. They say nothing about the prism a
+ * correctly made pair induces when the eyes look elsewhere; callers pass the values at the
+ * marks (marks.ts), never those at a target.
+ *
  * Each profile row carries its source. Above a power threshold the standards switch from a
  * prism limit to a centration limit in millimetres; the verdict then uses the centration
  * error, not the prism.
@@ -70,6 +75,8 @@ export interface Verdict {
   unit: 'Δ' | 'mm';
   /** the power that selected the rule (largest absolute meridional power of the two lenses), D */
   powerD: number;
+  /** the profile's power threshold for this component, D (Infinity: the prism rule at any power) */
+  thresholdD: number;
 }
 
 /**
@@ -88,5 +95,26 @@ export function verdict(
   const limit = useMm ? (rule.mmAbove as number) : rule.prismDelta;
   // compare at a resolution of 1e-9 so that a value equal to its limit passes
   const margin = limit - value;
-  return { component, rule: useMm ? 'mm' : 'prism', value, limit, margin, pass: margin >= -1e-9, unit: useMm ? 'mm' : 'Δ', powerD };
+  return { component, rule: useMm ? 'mm' : 'prism', value, limit, margin, pass: margin >= -1e-9, unit: useMm ? 'mm' : 'Δ', powerD, thresholdD: rule.powerThresholdD };
+}
+
+/**
+ * The row of the profile that applied, as the standard words it: "0.67 Δ total for the pair
+ * (powers up to 2.75 D)" or "2.5 mm from the specified PD (powers above 2.75 D)".
+ */
+export function ruleText(v: Verdict): string {
+  const th = trimD(v.thresholdD);
+  if (v.rule === 'mm') {
+    return v.component === 'horizontal'
+      ? `${v.limit} mm from the specified PD (powers above ${th} D)`
+      : `${v.limit} mm difference in reference-point heights (powers above ${th} D)`;
+  }
+  const what = v.component === 'horizontal' ? 'total for the pair' : 'difference between the eyes';
+  return Number.isFinite(v.thresholdD) ? `${v.limit} Δ ${what} (powers up to ${th} D)` : `${v.limit} Δ ${what} (user-defined, any power)`;
+}
+
+/** A threshold as a standard writes it: 2.75, 3.375 (two decimals, three where needed). */
+function trimD(v: number): string {
+  const s = v.toFixed(3);
+  return s.endsWith('0') ? v.toFixed(2) : s;
 }

@@ -5,12 +5,12 @@
  * an error names the field by its path ("right.ct") and says why.
  */
 import * as v from 'valibot';
-import { findProfile } from '../optics/index.ts';
+import { type PrismEntry, type TiltDrop, findProfile, tiltDropMm } from '../optics/index.ts';
 import { InputError, inRange } from './input.ts';
 import { type FieldKey, LIMITS, type LensForm, type RawFields, buildLens, readLensForm } from './lensCase.ts';
 
 export const CASE_FORMAT = 'decentra-case';
-export const CASE_VERSION = 1;
+export const CASE_VERSION = 2;
 /** Larger files are refused before parsing (a case is a few kilobytes). */
 export const MAX_CASE_BYTES = 256 * 1024;
 
@@ -26,8 +26,16 @@ const lensEntries = {
   toric: v.optional(v.picklist(['tyre', 'barrel'])),
 };
 
+/** A prescribed prism: an amount with a base word, or an amount at a 360° base angle. */
+const PrismEntrySchema = v.union([
+  v.strictObject({ amount: num, base: v.picklist(['in', 'out', 'up', 'down']) }),
+  v.strictObject({ amount: num, angle: num }),
+]);
+
 const EyeSchema = v.strictObject({
   ...lensEntries,
+  /** prescribed prism: up to two entries (a horizontal and a vertical base word), or one 360° entry */
+  prism: v.optional(v.pipe(v.array(PrismEntrySchema), v.maxLength(2))),
   /** monocular PD, mm */
   pd: num,
   /** back vertex to centre of rotation, mm */
@@ -44,6 +52,9 @@ const TargetSchema = v.variant('kind', [
   v.strictObject({ kind: v.literal('distance') }),
   /** distance from the centres of rotation, mm; below and lateral offsets of the target, mm */
   v.strictObject({ kind: v.literal('near'), distance: num, below: v.optional(num), lateral: v.optional(num) }),
+  /** a reading level: lens points `below` mm below and `inset` mm towards the nose from each
+   *  eye's distance centration point */
+  v.strictObject({ kind: v.literal('level'), below: num, inset: v.optional(num) }),
 ]);
 
 const ToleranceSchema = v.variant('profile', [
@@ -60,8 +71,12 @@ export const CaseSchema = v.strictObject({
   frame: v.optional(v.strictObject({ a: num, b: num, dbl: num })),
   pantoDeg: v.optional(num),
   wrapDeg: v.optional(num),
+  /** lower the optical centres for the pantoscopic tilt (docs/conventions.md) */
+  tiltDrop: v.optional(v.picklist(['none', 'rule-of-thumb', 'centre-of-rotation'])),
   target: TargetSchema,
   tolerance: v.optional(ToleranceSchema),
+  /** free text for the clinician summary (no real data in examples) */
+  report: v.optional(v.strictObject({ recipient: v.optional(text(200)), practice: v.optional(text(200)), reference: v.optional(text(100)) })),
   right: EyeSchema,
   left: EyeSchema,
 });
@@ -73,9 +88,13 @@ export interface EyeCase {
   lens: LensForm;
   pdMm: number;
   crMm: number;
-  /** optical centre relative to the pupil, mm */
+  /** optical centre relative to the pupil, mm (with the tilt drop applied) */
   ocXMm: number;
   ocYMm: number;
+  /** prescribed prism entries (empty: none) */
+  prism: PrismEntry[];
+  /** how far the optical centre was lowered for the tilt, mm (0 unless tiltDrop asks) */
+  tiltDropMm: number;
 }
 
 /** A validated case: the document (as saved) and its values, checked. */
@@ -163,8 +182,12 @@ function explainIssue(issue: v.BaseIssue<unknown>): string {
 /**
  * Older documents are brought to the current version here, one step at a time. Version 1 is
  * the first; a document without a version is refused (it may be anything).
+ * 1 -> 2: version 2 only adds optional fields (prescribed prism, a reading-level target, the
+ * tilt drop, the summary's free text), so a version 1 document is a valid version 2 one.
  */
-const MIGRATIONS: Record<number, (doc: Record<string, unknown>) => Record<string, unknown>> = {};
+const MIGRATIONS: Record<number, (doc: Record<string, unknown>) => Record<string, unknown>> = {
+  1: (doc) => ({ ...doc, version: 2 }),
+};
 
 export function migrate(raw: unknown): unknown {
   if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) return raw;
@@ -178,6 +201,8 @@ export function migrate(raw: unknown): unknown {
 }
 
 function checkValues(doc: CaseDocument): BinocularCase {
+  const pantoDeg = doc.pantoDeg === undefined ? 0 : inRange('pantoDeg', doc.pantoDeg, LIMITS.panto);
+  const wrapDeg = doc.wrapDeg === undefined ? 0 : inRange('wrapDeg', doc.wrapDeg, LIMITS.wrap);
   const eye = (side: 'right' | 'left'): EyeCase => {
     const d = doc[side];
     const label = (k: FieldKey | string) => `${side}.${k}`;
@@ -216,7 +241,8 @@ function checkValues(doc: CaseDocument): BinocularCase {
       ocXMm = 0;
       ocYMm = 0;
     }
-    return { lens, pdMm, crMm, ocXMm, ocYMm };
+    const drop = tiltDropMm((doc.tiltDrop ?? 'none') as TiltDrop, pantoDeg, crMm);
+    return { lens, pdMm, crMm, ocXMm, ocYMm: ocYMm - drop, prism: readPrism(label('prism'), d.prism ?? []), tiltDropMm: drop };
   };
   const right = eye('right');
   const left = eye('left');
@@ -224,13 +250,14 @@ function checkValues(doc: CaseDocument): BinocularCase {
   // so that a case that loads is a case that can be evaluated
   buildLens(right.lens, (k) => `right.${k}`);
   buildLens(left.lens, (k) => `left.${k}`);
-  const pantoDeg = doc.pantoDeg === undefined ? 0 : inRange('pantoDeg', doc.pantoDeg, { min: -20, max: 30, unit: 'degrees' });
-  const wrapDeg = doc.wrapDeg === undefined ? 0 : inRange('wrapDeg', doc.wrapDeg, { min: -10, max: 35, unit: 'degrees' });
   const t = doc.target;
   if (t.kind === 'near') {
     inRange('target.distance', t.distance, { min: 100, max: 10000, unit: 'mm' });
     inRange('target.below', t.below ?? 0, { min: -300, max: 300, unit: 'mm' });
     inRange('target.lateral', t.lateral ?? 0, { min: -300, max: 300, unit: 'mm' });
+  } else if (t.kind === 'level') {
+    inRange('target.below', t.below, LIMITS.levelBelow);
+    inRange('target.inset', t.inset ?? 0, LIMITS.levelInset);
   }
   if (doc.tolerance?.profile === 'custom') {
     inRange('tolerance.horizontal', doc.tolerance.horizontal, { min: 0, max: 20, above: true, unit: 'Δ' });
@@ -239,6 +266,23 @@ function checkValues(doc: CaseDocument): BinocularCase {
     throw new CaseError('tolerance.profile', `unknown profile '${doc.tolerance.profile}'`);
   }
   return { doc, right, left, pantoDeg, wrapDeg };
+}
+
+/** Check one eye's prescribed prism entries: amounts, angles, and no contradictory bases. */
+function readPrism(field: string, entries: readonly PrismEntry[]): PrismEntry[] {
+  const seen = new Set<string>();
+  entries.forEach((e, i) => {
+    inRange(`${field}.${i}.amount`, e.amount, LIMITS.prism);
+    const group = 'angle' in e ? 'angle' : e.base === 'in' || e.base === 'out' ? 'horizontal' : 'vertical';
+    if ('angle' in e) inRange(`${field}.${i}.angle`, e.angle, LIMITS.prismAngle);
+    if (seen.has(group) || (group === 'angle' && seen.size) || (group !== 'angle' && seen.has('angle'))) {
+      throw new CaseError(`${field}.${i}`, group === 'angle' || seen.has('angle')
+        ? 'give either base words (in/out, up/down) or one 360° angle, not both'
+        : `gives a second ${group} prism; give at most one ${group} entry (in or out, up or down)`);
+    }
+    seen.add(group);
+  });
+  return entries.map((e) => ({ ...e }));
 }
 
 /** The document as saved: stable key order, two-space indentation, a final newline. */

@@ -86,6 +86,15 @@ export const LIMITS = {
   conic: { min: -50, max: 50 },
   point: { min: -50, max: 50, unit: 'mm' },
   cr: { min: 5, max: 60, unit: 'mm' },
+  /** pantoscopic tilt and wrap: one range everywhere (docs/conventions.md, "Tilted and wrapped lenses") */
+  panto: { min: -20, max: 30, unit: 'degrees' },
+  wrap: { min: -10, max: 35, unit: 'degrees' },
+  /** a prescribed prism, per entry */
+  prism: { min: 0, max: 20, unit: 'Δ' },
+  prismAngle: { min: 0, max: 360, unit: 'degrees' },
+  /** a reading level: depth below and inset from the distance centration point */
+  levelBelow: { min: -20, max: 40, unit: 'mm' },
+  levelInset: { min: -10, max: 10, unit: 'mm' },
 } as const;
 
 function present(v: unknown): boolean {

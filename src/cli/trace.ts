@@ -1,8 +1,9 @@
-/** `decentra trace`: the four answers at one visual point (DESIGN §9). */
+/** `decentra trace`: the four answers at one visual point (docs/cli.md). */
 import { InputError } from '../case/input.ts';
 import { readEye, readTraceCase } from '../case/lensCase.ts';
 import { loadCaseFile } from './fit.ts';
-import { fourAnswers, isFailure } from '../optics/index.ts';
+import { type FourAnswers, Placement, centrationPoint, fourAnswers, fourAnswersPlaced, isFailure } from '../optics/index.ts';
+import { placementOf } from '../case/fit.ts';
 import { LENS_FLAGS, flagOf, parseArgs, rawFields } from './args.ts';
 import { CAUTION, answersTable, fourAnswersJson, signed } from './format.ts';
 
@@ -10,6 +11,10 @@ export const TRACE_HELP = `decentra trace: prism at one visual point of a thick 
 
 Usage: decentra trace --sphere D [options] [--json]
        decentra trace CASE.json [--eye R|L] [--x mm --y mm] [--json]   (lens from a case file)
+
+With a case file the lens is that eye's (default R), placed as the case places it (optical
+centre, tilt, wrap), and the visual point starts at the eye's mark, where its straight-ahead
+line meets the lens; --x and --y move it from there.
 
 The lens is untilted and the centre of rotation lies on its optical axis. Lengths are in mm
 (a value may carry a unit: "0.25cm"), powers in dioptres, angles in degrees.
@@ -39,7 +44,7 @@ Fitting and line of sight
   --x mm  --y mm      visual point relative to the optical centre, wearer frame:
                       x towards the wearer's left, y up (default 0)
 Output
-  --json              one JSON object (DESIGN §9 contract) instead of the table
+  --json              one JSON object (the contract in docs/cli.md) instead of the table
   --help              this text
 `;
 
@@ -51,8 +56,10 @@ export function runTrace(argv: readonly string[]): string {
   if (args.switches.has('help')) return TRACE_HELP;
   if (args.positional.length > 1) throw new InputError(args.positional[1]!, 'unexpected argument (flags start with --)');
   let f = rawFields(args);
+  let fromCase: { placement: Placement; side: 'right' | 'left' } | null = null;
   if (args.positional.length === 1) {
-    // a case file gives the lens of one eye (--eye, default R) and its fitting distance
+    // a case file gives the lens of one eye (--eye, default R), its fitting distance and its
+    // placement; the visual point starts at that eye's mark and --x/--y move it
     const given = Object.keys(f).filter((k) => k !== 'eye');
     if (given.length) throw new InputError(flagOf(given[0]!), 'comes from the case file; give only --eye, --x and --y with a case file');
     const c = loadCaseFile(args.positional[0]!);
@@ -60,17 +67,34 @@ export function runTrace(argv: readonly string[]): string {
     const eyeDoc = c.doc[side] as Record<string, unknown>;
     f = { eye: side === 'right' ? 'R' : 'L', cr: c[side].crMm };
     for (const k of Object.values(LENS_FLAGS)) if (k !== 'eye' && k !== 'cr' && eyeDoc[k] !== undefined) f[k] = eyeDoc[k];
+    fromCase = { placement: placementOf(c, side), side };
   }
   f.x = args.values.get('x');
   f.y = args.values.get('y');
   const { tc, lens } = readTraceCase(f, flagOf);
-  const r = fourAnswers(lens, tc.crMm, tc.xMm, tc.yMm, tc.eye);
+  let x = tc.xMm, y = tc.yMm;
+  let mark: { x: number; y: number } | null = null;
+  let r: FourAnswers;
+  if (fromCase) {
+    const m = centrationPoint(lens, fromCase.placement);
+    if (!m) throw new InputError('--eye', `the ${fromCase.side} eye's straight-ahead line misses its lens, so it has no mark`);
+    mark = m.lens;
+    x += m.lens.x; y += m.lens.y;
+    if (Math.hypot(x, y) > lens.radiusMm) {
+      throw new InputError(Math.abs(tc.xMm) >= Math.abs(tc.yMm) ? '--x' : '--y',
+        `moves the visual point to (${fmt2(x)}, ${fmt2(y)}) mm from the optical centre, outside the ${fmt2(2 * lens.radiusMm)} mm lens`);
+    }
+    r = fourAnswersPlaced(lens, fromCase.placement, x, y, tc.eye);
+  } else {
+    r = fourAnswers(lens, tc.crMm, x, y, tc.eye);
+  }
   const input = {
     sphere: tc.lens.sphereD, cyl: tc.lens.cylD, axis: tc.lens.axisDeg, index: lens.index,
     ...(tc.lens.materialId ? { material: tc.lens.materialId } : {}),
     front: lens.frontPowers[0], ct: lens.ctMm, frontK: tc.lens.frontConic, backK: tc.lens.backConic,
     ...(Number.isFinite(lens.radiusMm) ? { diameter: 2 * lens.radiusMm } : {}),
-    x: tc.xMm, y: tc.yMm, cr: tc.crMm, eye: tc.eye,
+    x, y, cr: tc.crMm, eye: tc.eye,
+    ...(mark ? { mark, placed: { ocX: fromCase!.placement.spec.ocXMm, ocY: fromCase!.placement.spec.ocYMm, panto: fromCase!.placement.spec.pantoDeg, wrap: fromCase!.placement.spec.wrapDeg } } : {}),
   };
   if (args.switches.has('json')) return JSON.stringify(fourAnswersJson(r, input));
 
@@ -78,8 +102,10 @@ export function runTrace(argv: readonly string[]): string {
   const lines = [
     `${tc.eye === 'R' ? 'Right' : 'Left'} eye, ${rx}; index ${lens.index.toFixed(3)}, front ${signed(lens.frontPowers[0])} D, ` +
       `back ${signed(lens.backPowers[0])} / ${signed(lens.backPowers[1])} D, centre ${lens.ctMm.toFixed(2)} mm, CR ${tc.crMm.toFixed(1)} mm`,
-    `Visual point ${tc.xMm.toFixed(2)} mm x, ${tc.yMm.toFixed(2)} mm y from the optical centre ` +
-      `(${Math.hypot(tc.xMm, tc.yMm).toFixed(2)} mm)`,
+    `Visual point ${x.toFixed(2)} mm x, ${y.toFixed(2)} mm y from the optical centre ` +
+      `(${Math.hypot(x, y).toFixed(2)} mm)` +
+      (mark ? `, the ${fromCase!.side} eye's mark at (${mark.x.toFixed(2)}, ${mark.y.toFixed(2)}) mm` +
+        (tc.xMm || tc.yMm ? ` moved by (${tc.xMm}, ${tc.yMm}) mm` : '') + '; the lens placed as the case places it' : ''),
     '',
     answersTable(r),
     '',
@@ -91,4 +117,8 @@ export function runTrace(argv: readonly string[]): string {
     CAUTION,
   ];
   return lines.join('\n');
+}
+
+function fmt2(v: number): string {
+  return v.toFixed(2);
 }

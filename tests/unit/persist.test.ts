@@ -85,7 +85,7 @@ const arbDoc: fc.Arbitrary<CaseDocument> = fc.record({
   right: arbLens, left: arbLens, rOc: arbOc, lOc: arbOc, rFit: arbFrameEye, lFit: arbFrameEye,
 }, { requiredKeys: ['target', 'right', 'left', 'rOc', 'lOc', 'rFit', 'lFit', 'frame'] }).map((r) => {
   const { rOc, lOc, rFit, lFit, frame, ...rest } = r;
-  const doc: Record<string, unknown> = { format: 'decentra-case', version: 1, ...rest };
+  const doc: Record<string, unknown> = { format: 'decentra-case', version: 2, ...rest };
   // the optical centre is given either directly or from the frame (never both)
   if (frame) {
     doc.frame = frame;
@@ -132,7 +132,7 @@ describe('the working case in storage', () => {
     ['a wrong type', wrap({ ...good(), right: { ...good().right, pd: 'NaN' } }), /right\.pd: must be number/],
     ['a huge number', wrap({ ...good(), left: { ...good().left, ct: 1e308 } }), /left\.ct: must be greater than 0 and at most 30 mm/],
     ['a missing field', wrap({ ...good(), target: undefined }), /target: is required/],
-    ['a newer case version', wrap({ ...good(), version: 2 }), /version: must be 1/],
+    ['a newer case version', wrap({ ...good(), version: 3 }), /version: must be 2/],
     ['400 kB of text', wrap({ ...good(), note: 'x'.repeat(400 * 1024) }), /is 40\d kB, more than the 300 kB/],
   ];
   it.each(hostile)('%s: refused whole, said with the field, set aside', (_name, text, why) => {
@@ -145,6 +145,15 @@ describe('the working case in storage', () => {
     // nothing is lost: the entry is kept aside, and no longer read as the working case
     expect(JSON.parse(s.getItem(REJECTED_KEY)!)).toMatchObject({ key: WORKING_KEY, text: text.slice(0, 4 * 1024 * 1024) });
     expect(s.getItem(WORKING_KEY)).toBeNull();
+  });
+
+  it('a case autosaved as version 1 is restored, migrated to version 2 (docs/case-file.md, "Versions")', () => {
+    const s = new FakeStorage();
+    const old = { ...good(), version: 1 };
+    s.setItem(WORKING_KEY, wrap(old));
+    const r = loadWorking(s);
+    expect(r.problem).toBeUndefined();
+    expect(r.entry!.doc).toEqual({ ...old, version: 2 });
   });
 
   it('a refused entry is not applied in part: the store keeps the case it had', () => {

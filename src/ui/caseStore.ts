@@ -14,7 +14,7 @@ type Listener = (c: BinocularCase, origin: CaseOrigin) => void;
 /** An invented scenario for the "both eyes" workspace (not a real wearer). */
 export const DEMO_BINOCULAR: CaseDocument = {
   format: 'decentra-case',
-  version: 1,
+  version: 2,
   title: 'Invented scenario: R -9.50 / L -8.75 D in a frame wider than the PD, reading at 40 cm',
   note: 'A made-up example for trying Decentra; not a real wearer.',
   frame: { a: 54, b: 38, dbl: 18 },

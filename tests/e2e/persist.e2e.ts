@@ -31,7 +31,7 @@ const stored = (page: Page, key: string) => page.evaluate((k) => localStorage.ge
 /** An invented case (not a real wearer), with markup in its title that must stay text. */
 const CASE: Doc = {
   format: 'decentra-case',
-  version: 1,
+  version: 2,
   title: 'Invented scenario <img src=x onerror="window.__pwned=1"> R -4.25 / L -3.50',
   note: 'Made up for the end-to-end test.',
   frame: { a: 50, b: 36, dbl: 19 },

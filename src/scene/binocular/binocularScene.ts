@@ -4,7 +4,8 @@
  * both exact lines of sight from each centre of rotation through its lens to the target, the
  * straight lines the eyes would take without lenses, and the target.
  *
- * Binocular frame (shared/DESIGN.md §4, §8), mm: origin midway between the centres of
+ * Binocular frame (docs/conventions.md, "The wearer frame"; docs/binocular.md, "Frame and
+ * signs"), mm: origin midway between the centres of
  * rotation, right CR at x = -PD_R, left CR at x = +PD_L, x towards the wearer's left, y up,
  * z towards the object; three.js's own frame seen by an observer facing the wearer. Each
  * eye's traces are in its lens frame; Placement.toEyePoint / toEyeDir take them to the eye
@@ -29,6 +30,12 @@ import { Viewer } from '../viewer.ts';
 export const FRAME_COLOR = 0xc8b9a0;
 /** Object-side length drawn towards a distant target, mm. */
 const DISTANCE_RAY_MM = 260;
+/**
+ * Object-side length drawn for a reading level, mm: a reading level gives the points on the
+ * lenses, not a target, so each line of sight is drawn this far beyond its lens (a drawing
+ * length about a reading distance, not a computed one).
+ */
+const LEVEL_RAY_MM = 330;
 const EDGE_STEPS = 8;
 
 export interface EyeDrawing {
@@ -56,8 +63,11 @@ export interface BinocularSceneInput {
   right: EyeDrawing;
   left: EyeDrawing;
   frame: { right: FrameBox; left: FrameBox } | null;
-  /** the target in the binocular frame (a point, or a direction for a distant target) */
-  target: Target;
+  /**
+   * the target in the binocular frame: a point, a direction for a distant target, or null for
+   * a reading level (no target: each line of sight is drawn out along its own object-side ray)
+   */
+  target: Target | null;
   targetLabel: string;
 }
 
@@ -157,6 +167,7 @@ const _v = new Vector3();
 const _hit = new Hit();
 const _pts = new Float64Array(3 * (4 * EDGE_STEPS + 1));
 const _line = new Float64Array(12);
+const _end = new Float64Array(3);
 
 export class BinocularScene {
   readonly viewer: Viewer;
@@ -185,8 +196,15 @@ export class BinocularScene {
     c.root.visible = true;
     const t = input.target;
     let maxR = 20;
+    // the far ends of the drawn lines (for the preset views and a reading level's label)
+    let endX = 0, endY = 0, endZ = 0, lowEnd = 0, farEnd = 0, ends = 0;
     for (const [d, e] of [[input.right, c.right], [input.left, c.left]] as const) {
-      this.updateEye(d, e, t);
+      if (this.updateEye(d, e, t)) {
+        endX += _end[0]!; endY += _end[1]!; endZ += _end[2]!;
+        lowEnd = Math.min(lowEnd, _end[1]!);
+        farEnd = Math.max(farEnd, _end[2]!);
+        ends++;
+      }
       if (d.lens) maxR = Math.max(maxR, d.lens.radiusMm);
     }
     // the frame: each box on its lens, and a bridge between their upper inner corners
@@ -202,23 +220,31 @@ export class BinocularScene {
       c.bridge.clear();
     }
     // the target
-    if (t.kind === 'point') {
+    // beside a target (to its left, a little below); for a reading level, ending under the lines' ends
+    if (t) c.targetLabel.center.set(1.04, -0.2);
+    else c.targetLabel.center.set(1, -0.4);
+    if (t && t.kind === 'point') {
       c.target.visible = true;
       c.target.position.set(t.x, t.y, t.z);
       c.targetLabel.position.set(t.x, t.y, t.z);
-    } else {
+    } else if (t) {
       c.target.visible = false;
       const n = Math.hypot(t.x, t.y, t.z);
       c.targetLabel.position.set((t.x / n) * DISTANCE_RAY_MM, (t.y / n) * DISTANCE_RAY_MM - 6, (t.z / n) * DISTANCE_RAY_MM);
+    } else {
+      // a reading level: no target; the label sits between the ends of the two lines
+      c.target.visible = false;
+      if (ends) c.targetLabel.position.set(endX / ends, endY / ends - 6, endZ / ends);
+      else c.targetLabel.position.set(0, -20, LEVEL_RAY_MM);
     }
     c.targetLabel.element.textContent = input.targetLabel;
     // extents for the preset views
     this.spanX = 2 * (Math.max(Math.abs(input.right.crXMm), Math.abs(input.left.crXMm)) + maxR) + 16;
     this.lensZ = 0.5 * (input.right.placement.vz + input.left.placement.vz);
     this.nearZ = -22;
-    this.farZ = t.kind === 'point' ? t.z + 20 : DISTANCE_RAY_MM + 10;
-    this.lowY = Math.min(-maxR - 8, t.kind === 'point' ? t.y - 20 : -maxR - 8);
-    this.highY = Math.max(maxR + 8, t.kind === 'point' ? t.y + 20 : maxR + 8);
+    this.farZ = t?.kind === 'point' ? t.z + 20 : t ? DISTANCE_RAY_MM + 10 : Math.max(farEnd, 60) + 20;
+    this.lowY = Math.min(-maxR - 8, t?.kind === 'point' ? t.y - 20 : t ? -maxR - 8 : lowEnd - 20);
+    this.highY = Math.max(maxR + 8, t?.kind === 'point' ? t.y + 20 : maxR + 8);
     if (!this.framed) {
       this.framed = true;
       this.setView(this.view);
@@ -226,7 +252,11 @@ export class BinocularScene {
     this.viewer.requestRender();
   }
 
-  private updateEye(d: EyeDrawing, e: EyeContent, t: Target): void {
+  /**
+   * Draw one eye, its lens and its lines. Returns true with the far end of its line of sight
+   * in _end when it has one.
+   */
+  private updateEye(d: EyeDrawing, e: EyeContent, t: Target | null): boolean {
     const pl = d.placement;
     const r = pl.r;
     // lens frame -> binocular frame: rotate, then move to the back vertex and the eye's CR
@@ -243,31 +273,40 @@ export class BinocularScene {
     const labelY = -(d.lens ? d.lens.radiusMm : 25) - 4;
     const lp = pl.toEyePoint(0, labelY, 0);
     e.label.position.set(lp.x + d.crXMm, lp.y, lp.z);
-    // without lenses: straight from the CR at the target
-    if (t.kind === 'point') {
-      _line[0] = d.crXMm; _line[1] = 0; _line[2] = 0;
-      _line[3] = t.x; _line[4] = t.y; _line[5] = t.z;
-    } else {
-      const n = Math.hypot(t.x, t.y, t.z);
-      _line[0] = d.crXMm; _line[1] = 0; _line[2] = 0;
-      _line[3] = d.crXMm + (t.x / n) * DISTANCE_RAY_MM; _line[4] = (t.y / n) * DISTANCE_RAY_MM; _line[5] = (t.z / n) * DISTANCE_RAY_MM;
-    }
-    e.noLens.setPolyline(_line, 2);
     const tr = d.trace;
+    // without lenses: straight from the CR at the target; for a reading level (no target),
+    // along the object-side ray, the way the eye would look at the same object without lenses
+    _line[0] = d.crXMm; _line[1] = 0; _line[2] = 0;
+    if (t && t.kind === 'point') {
+      _line[3] = t.x; _line[4] = t.y; _line[5] = t.z;
+      e.noLens.setPolyline(_line, 2);
+    } else if (t) {
+      const n = Math.hypot(t.x, t.y, t.z);
+      _line[3] = d.crXMm + (t.x / n) * DISTANCE_RAY_MM; _line[4] = (t.y / n) * DISTANCE_RAY_MM; _line[5] = (t.z / n) * DISTANCE_RAY_MM;
+      e.noLens.setPolyline(_line, 2);
+    } else if (tr) {
+      const o = pl.toEyeDir(tr.ox, tr.oy, tr.oz);
+      _line[3] = d.crXMm + o.x * LEVEL_RAY_MM; _line[4] = o.y * LEVEL_RAY_MM; _line[5] = o.z * LEVEL_RAY_MM;
+      e.noLens.setPolyline(_line, 2);
+    } else {
+      // a reading level without a line of sight: straight ahead, nothing to compare with
+      _line[3] = d.crXMm; _line[4] = 0; _line[5] = LEVEL_RAY_MM;
+      e.noLens.clear();
+    }
     if (!tr) {
       e.sight.clear();
       e.vp.visible = false;
       const n = Math.hypot(_line[3]! - _line[0]!, _line[4]!, _line[5]!);
       e.eye.update(0, (_line[3]! - _line[0]!) / n, _line[4]! / n, _line[5]! / n);
-      return;
+      return false;
     }
     const g = pl.toEyeDir(tr.ax, tr.ay, tr.az);
     e.eye.update(0, g.x, g.y, g.z);
     const b = pl.toEyePoint(tr.bx, tr.by, tr.bz);
     const f = pl.toEyePoint(tr.fx, tr.fy, tr.fz);
     const o = pl.toEyeDir(tr.ox, tr.oy, tr.oz);
-    let len = DISTANCE_RAY_MM;
-    if (t.kind === 'point') {
+    let len = t ? DISTANCE_RAY_MM : LEVEL_RAY_MM;
+    if (t && t.kind === 'point') {
       // to the target: the object-side ray passes through it (the fixation converged)
       len = (t.x - d.crXMm - f.x) * o.x + (t.y - f.y) * o.y + (t.z - f.z) * o.z;
       if (!(len > 0)) len = DISTANCE_RAY_MM;
@@ -279,6 +318,8 @@ export class BinocularScene {
     e.sight.setPolyline(_line, 4);
     e.vp.visible = true;
     e.vp.position.set(b.x + d.crXMm, b.y, b.z);
+    _end[0] = _line[9]!; _end[1] = _line[10]!; _end[2] = _line[11]!;
+    return true;
   }
 
   /**

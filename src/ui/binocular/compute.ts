@@ -4,9 +4,9 @@
  * drawing. Glue only: every number comes from src/case and src/optics.
  */
 import { type BinocularCase, type CaseDocument, readCase } from '../../case/caseFile.ts';
-import { type FitReport, evaluateFit, targetOf } from '../../case/fit.ts';
+import { type FitReport, evaluateFit, placementOf, targetOf } from '../../case/fit.ts';
 import { InputError } from '../../case/input.ts';
-import { Lens, OpticsError, Placement, type Target } from '../../optics/index.ts';
+import { type BinocularTarget, Lens, OpticsError, type Placement } from '../../optics/index.ts';
 import type { Side } from './form.ts';
 
 export interface EyeView {
@@ -24,7 +24,8 @@ export interface EyeView {
 export interface BinocularComputed {
   c: BinocularCase;
   fit: FitReport;
-  target: Target;
+  /** the target as the engine takes it: a point, a direction, or a reading level (no point) */
+  target: BinocularTarget;
   eyes: Record<Side, EyeView>;
 }
 
@@ -63,10 +64,7 @@ export function evaluateCase(c: BinocularCase): BinocularOutcome {
   const eyes = {} as Record<Side, EyeView>;
   for (const side of ['right', 'left'] as const) {
     const ec = c[side];
-    const placement = new Placement({
-      ocXMm: ec.ocXMm, ocYMm: ec.ocYMm, crDistanceMm: ec.crMm, pantoDeg: c.pantoDeg, wrapDeg: c.wrapDeg,
-      eye: side === 'right' ? 'R' : 'L',
-    });
+    const placement = placementOf(c, side);
     const lens = fit.lenses[side];
     const finite = Number.isFinite(lens.radiusMm);
     eyes[side] = {

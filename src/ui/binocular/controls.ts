@@ -1,6 +1,8 @@
 /**
- * The "both eyes" controls (lil-gui): each eye's prescription, lens and fitting; the frame
- * and where the optical centres sit; tilt and wrap; the target; the tolerance profile.
+ * The "both eyes" controls (lil-gui): each eye's prescription (with any prescribed prism),
+ * lens and fitting; the frame and where the optical centres sit; tilt, wrap and the tilt
+ * drop; the target (distance, a near point or a reading level); the tolerance profile; the
+ * clinician summary's free text.
  *
  * Numeric fields are text read by src/case (so "2.5 mm" and "0.25 cm" both work), with the
  * arrow keys stepping the value (Shift: ten steps). Every edit hands the whole form to
@@ -11,7 +13,8 @@ import GUI, { type Controller } from 'lil-gui';
 import { MATERIALS } from '../../optics/index.ts';
 import { enableArrowSteps, errorSlot } from '../numberInput.ts';
 import {
-  type BinocularForm, type CaseKey, type EyeKey, type FormField, SIDES, type Side, EYE_NAMES, fieldSpec, profileChoices,
+  type BinocularForm, type CaseKey, type EyeKey, type FormField, SIDES, type Side, EYE_NAMES, TILT_DROP_CHOICES, fieldSpec,
+  profileChoices, rangeHint,
 } from './form.ts';
 
 export interface BinocularControlHandlers {
@@ -25,6 +28,9 @@ export class BinocularControls {
   private readonly ctrl = new Map<FormField, Controller>();
   private readonly errorEls = new Map<FormField, HTMLElement>();
   private readonly general: HTMLElement;
+  private levelHint: HTMLElement | null = null;
+  /** per eye: the note and the button shown while a 360° prism is carried over */
+  private readonly prism360Extras = new Map<Side, { note: HTMLElement; clear: Controller }>();
 
   constructor(container: HTMLElement, initial: BinocularForm, private readonly handlers: BinocularControlHandlers) {
     this.form = structuredClone(initial);
@@ -50,17 +56,41 @@ export class BinocularControls {
     fr.$children.appendChild(hint);
     this.num(fr, 'case.panto');
     this.num(fr, 'case.wrap');
+    this.choice(fr, 'case.tiltDrop', TILT_DROP_CHOICES);
+    const dropHint = document.createElement('p');
+    dropHint.className = 'controls-hint';
+    dropHint.textContent = 'Lowers both optical centres for the pantoscopic tilt: 1 mm per 2° of tilt (common practice), or by s·tan(tilt) so that the centre of rotation lies on the optical axis (s: back vertex to CR). Each eye’s direct OC y field holds the centre before this drop.';
+    fr.$children.appendChild(dropHint);
 
     const tg = this.gui.addFolder('Target');
-    this.choice(tg, 'case.target', { 'Distance, straight ahead': 'distance', 'Near point': 'near' });
+    this.choice(tg, 'case.target', { 'Distance, straight ahead': 'distance', 'Near point': 'near', 'Reading level (on the lenses)': 'level' });
     this.num(tg, 'case.distance');
     this.num(tg, 'case.below');
     this.num(tg, 'case.lateral');
+    this.num(tg, 'case.levelBelow');
+    this.num(tg, 'case.levelInset');
+    this.ctrl.get('case.levelInset')?.domElement.querySelector('input')?.setAttribute('placeholder', '0');
+    const levelHint = document.createElement('p');
+    levelHint.className = 'controls-hint';
+    levelHint.dataset.hint = 'level';
+    levelHint.textContent = 'A reading level is where the eyes look through the lenses, given rather than solved: each visual point lies this far below its distance mark (the centration point), and inset towards the nose.';
+    tg.$children.appendChild(levelHint);
+    this.levelHint = levelHint;
 
     const tol = this.gui.addFolder('Tolerance');
     this.choice(tol, 'case.profile', profileChoices());
     this.num(tol, 'case.tolH');
     this.num(tol, 'case.tolV');
+
+    const rep = this.gui.addFolder('Clinician summary');
+    this.text(rep, 'case.recipient');
+    this.text(rep, 'case.practice');
+    this.text(rep, 'case.reference');
+    const repHint = document.createElement('p');
+    repHint.className = 'controls-hint';
+    repHint.textContent = 'Optional free text for the summary’s heading (Case › Clinician summary), kept in the case file. Leave out anything a shared file should not carry.';
+    rep.$children.appendChild(repHint);
+    rep.close();
 
     const act = this.gui.addFolder('Case');
     act.add({ restore: () => handlers.onRestoreDemo() }, 'restore').name('Restore the demo case');
@@ -151,6 +181,41 @@ export class BinocularControls {
       const input = this.ctrl.get(f(k))?.domElement.querySelector('input');
       input?.setAttribute('placeholder', k === 'diameter' ? 'none' : k === 'fittingHeight' ? 'B/2' : 'fitting height');
     }
+
+    // the prescribed prism: base words; a 360° prism from a file is shown read-only
+    const pr = eye.addFolder('Prescribed prism');
+    pr.domElement.dataset.prism = side;
+    this.readOnly(pr, f('prism360'));
+    const note = document.createElement('p');
+    note.className = 'controls-hint bi-prism360-note';
+    pr.$children.appendChild(note);
+    const clear = pr.add({ clear: () => this.replace360(side) }, 'clear').name('Remove the 360° prism');
+    clear.domElement.setAttribute('data-action', `${side}-clear-prism360`);
+    this.prism360Extras.set(side, { note, clear });
+    this.num(pr, f('prismH'));
+    this.choice(pr, f('prismHBase'), { 'Base in': 'in', 'Base out': 'out' });
+    this.num(pr, f('prismV'));
+    this.choice(pr, f('prismVBase'), { 'Base up': 'up', 'Base down': 'down' });
+    for (const k of ['prismH', 'prismV'] as const) this.ctrl.get(f(k))?.domElement.querySelector('input')?.setAttribute('placeholder', 'none');
+  }
+
+  /** The person replaces a 360° prism: from now on the base-word fields say what is prescribed. */
+  private replace360(side: Side): void {
+    if (this.form[side].prism360 === '') return;
+    this.form[side].prism360 = '';
+    this.ctrl.get(`${side}.prism360`)?.updateDisplay();
+    this.refreshVisibility();
+    this.emit(`${side}.prismH`);
+  }
+
+  /** A value shown but not edited (a 360° prism from a file). */
+  private readOnly(folder: GUI, field: FormField): void {
+    const [obj, key] = this.target(field);
+    const c = folder.add(obj, key).name(fieldSpec(field).label).disable();
+    c.domElement.setAttribute('data-field', field);
+    c.domElement.querySelector('input')?.setAttribute('data-field', field);
+    c.domElement.querySelector('input')?.setAttribute('readonly', '');
+    this.attachError(field, c);
   }
 
   private target(field: FormField): [Record<string, string>, string] {
@@ -167,9 +232,24 @@ export class BinocularControls {
     const input = c.domElement.querySelector('input') as HTMLInputElement;
     input.setAttribute('data-field', field);
     input.setAttribute('aria-describedby', `bi-err-${field.replace('.', '-')}`);
+    const hint = rangeHint(spec);
+    if (hint) input.title = hint;
     enableArrowSteps(input, spec, (text) => c.setValue(text));
-    c.onChange(() => this.emit(field));
+    c.onChange(() => this.emitPrismAware(field));
     this.attachError(field, c);
+  }
+
+  /** An edit; typing a prism amount replaces a 360° prism carried over from the file. */
+  private emitPrismAware(field: FormField): void {
+    const [side, key] = field.split('.') as [string, string];
+    if ((key === 'prismH' || key === 'prismV') && side !== 'case') {
+      const e = this.form[side as Side];
+      if (e.prism360 !== '' && e[key].trim() !== '') {
+        this.replace360(side as Side);
+        return;
+      }
+    }
+    this.emit(field);
   }
 
   private text(folder: GUI, field: FormField): void {
@@ -209,6 +289,10 @@ export class BinocularControls {
     for (const k of ['a', 'b', 'dbl'] as CaseKey[]) show(`case.${k}`, framed);
     const near = c.target === 'near';
     for (const k of ['distance', 'below', 'lateral'] as CaseKey[]) show(`case.${k}`, near);
+    const level = c.target === 'level';
+    show('case.levelBelow', level);
+    show('case.levelInset', level);
+    if (this.levelHint) this.levelHint.hidden = !level;
     const custom = c.profile === 'custom';
     show('case.tolH', custom);
     show('case.tolV', custom);
@@ -230,6 +314,17 @@ export class BinocularControls {
       show(f('decentration'), !direct);
       show(f('fittingHeight'), !direct);
       show(f('ocHeight'), !direct);
+      const has360 = e.prism360 !== '';
+      show(f('prism360'), has360);
+      const extra = this.prism360Extras.get(side);
+      if (extra) {
+        extra.note.hidden = !has360;
+        extra.note.textContent = has360
+          ? `${e.prism360}: the case file gives this prism in 360° notation, and it is kept as it is. Typing an amount below replaces it with base words.`
+          : '';
+        extra.clear.show(has360);
+        this.ctrl.get(f('prism360'))?.domElement.querySelector('input')?.setAttribute('title', e.prism360);
+      }
     }
   }
 

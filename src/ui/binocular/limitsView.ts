@@ -343,7 +343,7 @@ export class LimitsView {
         o.append(div);
         return;
       }
-      const at = offsetWords(-c.x, -c.y, side).replace(/, /, ' and ');
+      const at = offsetWords(-c.x, -c.y, side);
       const s = el('span', 'v', at === 'at it' ? 'optical centre at the visual point' : `optical centre ${at} from the visual point`);
       s.dataset.q = q;
       div.append(s);

@@ -11,6 +11,7 @@ import { InputError } from '../../case/input.ts';
 import { BINOCULAR_VIEWS, type BinocularSceneInput, type BinocularViewName, BinocularScene, FRAME_COLOR } from '../../scene/binocular/binocularScene.ts';
 import { COLORS, css } from '../../scene/palette.ts';
 import { type CaseStore, DEMO_BINOCULAR } from '../caseStore.ts';
+import { targetWords } from '../../case/fitWords.ts';
 import { num } from '../format.ts';
 import { type BinocularComputed, type BinocularOutcome, evaluateCase, evaluateDoc } from './compute.ts';
 import { BinocularControls } from './controls.ts';
@@ -233,16 +234,14 @@ function sceneInput(r: BinocularComputed): BinocularSceneInput {
     };
     boxes = { right: box('right'), left: box('left') };
   }
-  const t = c.doc.target;
   const target = r.target;
   return {
     right: eye('right'),
     left: eye('left'),
     frame: boxes,
-    target: target.kind === 'point' ? target : { kind: 'direction', x: target.x, y: target.y, z: target.z },
-    targetLabel: t.kind === 'near'
-      ? `target ${num(t.distance, 0)} mm ahead, ${num(t.below ?? 0, 0)} mm below${t.lateral ? `, ${num(t.lateral, 0)} mm left` : ''}`
-      : 'towards a distant target, straight ahead',
+    // a reading level has no target point or direction: the scene draws each eye's line out
+    target: target.kind === 'level' ? null : target,
+    targetLabel: `${target.kind === 'level' ? '' : 'target: '}${targetWords(c)}`,
   };
 }
 

@@ -1,20 +1,20 @@
 /**
- * The header's "Case" menu: new case, open a file, save as a file, the clinician summary,
- * the batch exports, and the recent cases. Every case change goes through the case store
+ * The header's "Case" menu: new case, open a file, save as a file, the clinician summary
+ * (opened in a tab, or printed), the batch exports, and the recent cases. Every case change goes through the case store
  * (set(doc, origin)), which checks the document whole first; nothing here edits a case.
  * All text from cases and files is set with textContent.
  */
 import { type CaseDocument, CaseError } from '../../case/caseFile.ts';
 import { InputError } from '../../case/input.ts';
 import type { CaseStore } from '../caseStore.ts';
-import { openSummary, readCaseFile, saveCaseFile } from './files.ts';
+import { openSummary, printSummary, readCaseFile, saveCaseFile } from './files.ts';
 import type { CaseKeeper, Notify } from './keeper.ts';
 import type { RecentEntry } from './storage.ts';
 
 /** A new case: plano lenses, PD 32 mm each, looking into the distance (edit from there). */
 export const NEW_CASE: CaseDocument = {
   format: 'decentra-case',
-  version: 1,
+  version: 2,
   title: 'New case',
   target: { kind: 'distance' },
   tolerance: { profile: 'ansi-z80.1' },
@@ -92,6 +92,7 @@ export class CaseMenu {
       this.item('open', 'Open or import a file…', 'A .decentra.json case file (it is checked whole before it is used)', () => this.fileInput.click()),
       this.item('save', 'Save as file', 'Download the case as a .decentra.json file', () => this.save()),
       this.item('summary', 'Clinician summary', 'One printable page for a referring clinician, in a new tab', () => this.summary()),
+      this.item('print-summary', 'Print the clinician summary…', 'The same page, straight to the browser’s print dialog', () => this.summary(true)),
       this.separator(),
       this.item('export-sweep', 'Export a sweep table…', 'CSV or JSON over powers and decentrations, for the single-lens family', () => o.onExport('sweep')),
       this.item('export-limits', 'Export a limits table…', 'CSV or JSON: the largest decentration within a tolerance, per power', () => o.onExport('limits')),
@@ -239,9 +240,11 @@ export class CaseMenu {
     this.o.notify('info', `Saved as ${name} (in the browser’s downloads).`, 'case');
   }
 
-  summary(): void {
+  /** Open the clinician summary in a new tab, or (print) send it to the print dialog. */
+  summary(print = false): void {
     try {
-      openSummary(this.o.store.get());
+      if (print) printSummary(this.o.store.get());
+      else openSummary(this.o.store.get());
     } catch (e) {
       if (!(e instanceof InputError)) throw e;
       this.o.notify('error', `The summary cannot be made: ${e.message}.`, 'case');

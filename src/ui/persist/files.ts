@@ -1,7 +1,9 @@
 /**
  * Files in and out of the page: a case saved as a .decentra.json download, a file read as
  * bytes and checked whole by readCaseBytes before anything is applied, and the clinician
- * summary opened in a new tab from a Blob URL (the summary page is never put into this page).
+ * summary opened in a new tab from a Blob URL, or printed. The summary page is never put into
+ * this page's document: printing loads it, unchanged and still script-free under its own
+ * Content-Security-Policy, into a hidden frame and asks that frame's window to print.
  */
 import { type BinocularCase, CaseError, readCaseBytes, writeCase } from '../../case/caseFile.ts';
 import { evaluateFit } from '../../case/fit.ts';
@@ -64,4 +66,36 @@ export function openSummary(c: BinocularCase, date = new Date()): void {
   document.body.append(a);
   a.click();
   a.remove();
+}
+
+let printFrame: HTMLIFrameElement | null = null;
+let printUrl: string | null = null;
+
+/**
+ * Print the clinician summary of a case: the same page as openSummary, loaded from a Blob URL
+ * into a hidden frame whose window is asked to print once it has loaded (the browser's print
+ * dialog opens; the page itself runs no script). The frame stays until the next print, so
+ * that the dialog can still read it. Returns the frame. Throws an InputError naming the field
+ * if the case cannot be evaluated.
+ */
+export function printSummary(c: BinocularCase, date = new Date()): HTMLIFrameElement {
+  const page = summaryHtml(c, evaluateFit(c), { date });
+  printFrame?.remove();
+  if (printUrl) URL.revokeObjectURL(printUrl);
+  printUrl = URL.createObjectURL(new Blob([page], { type: 'text/html' }));
+  const frame = document.createElement('iframe');
+  frame.className = 'summary-print-frame';
+  frame.title = 'Clinician summary, for printing';
+  frame.tabIndex = -1;
+  frame.setAttribute('aria-hidden', 'true');
+  frame.addEventListener('load', () => {
+    const w = frame.contentWindow;
+    if (!w) return;
+    w.focus();
+    w.print();
+  }, { once: true });
+  frame.src = printUrl;
+  document.body.append(frame);
+  printFrame = frame;
+  return frame;
 }

@@ -12,10 +12,13 @@ Usage: decentra report CASE.json [--out FILE.html] [--date YYYY-MM-DD]
 
 Reads a Decentra case file (docs/case-file.md), evaluates it as "decentra fit" does, and
 writes a standalone HTML page (no script, no external files) laid out for one A4 or Letter
-sheet: what was entered and assumed, each eye's prism at its visual point (exact, Prentice,
-first-order, focimeter), the binocular result, the tolerance verdict, slab-off advice, a
-cross-section of each lens with the line of sight, prism-against-decentration plots, a
-method note and the cautions. Print it from a browser to get a PDF.
+sheet: in short; what was entered and assumed; the three answers, each under its own
+heading (1. at the marks: what the lab measures; 2. the standard's verdict on making and
+centring; 3. what the eyes do at the target, with the binocular demand and clinical
+guidance); the slab-off order; a cross-section of each lens with the line of sight and
+prism-against-decentration plots; a method note and the cautions. The case file's optional
+"report" fields (recipient, practice, reference) head the page. Print it from a browser to
+get a PDF.
 
   --out FILE    write the page to FILE (otherwise it is printed to stdout)
   --date DAY    the date printed on the page, YYYY-MM-DD (default: today), for

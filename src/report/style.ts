@@ -1,7 +1,8 @@
 /**
  * The summary's style sheet (a constant: no user text). Laid out for one portrait sheet of
  * either A4 (210 × 297 mm) or US Letter (216 × 279 mm): the content is at most 190 mm wide
- * (A4 less 10 mm margins) and is kept well under 259 mm tall (Letter less 10 mm margins).
+ * (A4 less 10 mm margins) and must stay under 259 mm tall (Letter less 10 mm margins): the
+ * tests print the examples and long invented cases in Chromium and count the pages.
  * Colours of the four answers follow the app's (src/scene/palette.ts), darkened for paper,
  * and each curve also has its own dash pattern so that a grey print stays readable.
  */
@@ -10,41 +11,46 @@ export const REPORT_CSS = `
 * { box-sizing: border-box; }
 html { -webkit-print-color-adjust: exact; print-color-adjust: exact; }
 body { margin: 0; background: #e9edf1; color: #17212b;
-  font: 7.4pt/1.25 "Helvetica Neue", Arial, "Liberation Sans", "DejaVu Sans", sans-serif; }
+  font: 6.9pt/1.18 "Helvetica Neue", Arial, "Liberation Sans", "DejaVu Sans", sans-serif; }
 .sheet { width: 190mm; margin: 8mm auto; padding: 0; background: #fff; }
 @media screen { .sheet { padding: 8mm; width: 206mm; box-shadow: 0 1px 6px rgba(0,0,0,.25); } }
 @media print { body { background: #fff; } .sheet { margin: 0; } .screen-only { display: none; } }
 h1 { font-size: 12pt; margin: 0; letter-spacing: .01em; }
-h2 { font-size: 8.4pt; margin: 1.7mm 0 .8mm; padding-bottom: .4mm; border-bottom: .3mm solid #2f5d7c; color: #1d3f57; }
-header { border-bottom: .6mm solid #2f5d7c; padding-bottom: 1.4mm; }
+h2 { font-size: 8pt; margin: 1.2mm 0 .4mm; padding-bottom: .4mm; border-bottom: .3mm solid #2f5d7c; color: #1d3f57; }
+header { border-bottom: .6mm solid #2f5d7c; padding-bottom: 1mm; }
 .head-row { display: flex; justify-content: space-between; align-items: baseline; }
 .date { font-size: 8.4pt; }
-.case-title { font-size: 8.8pt; font-weight: 600; margin: .8mm 0 0; overflow-wrap: anywhere; }
-.note { margin: .3mm 0 0; font-size: 7pt; color: #3b4856; overflow-wrap: anywhere; }
+.case-title { font-size: 8.6pt; font-weight: 600; margin: .6mm 0 0; overflow-wrap: anywhere; }
+.who { margin: .6mm 0 0; font-size: 7pt; overflow-wrap: anywhere; }
+.note { margin: .3mm 0 0; font-size: 6.5pt; color: #3b4856; overflow-wrap: anywhere; }
 .screen-only { color: #6b7785; margin: .5mm 0 0; }
-.box { background: #f1f6f9; border: .3mm solid #c4d6e2; border-radius: 1.2mm; padding: .2mm 2.4mm 1mm; margin-top: 1.8mm; }
+.box { background: #f1f6f9; border: .3mm solid #c4d6e2; border-radius: 1.2mm; padding: .2mm 2.4mm .8mm; margin-top: 1.4mm; }
 .box h2 { border: 0; margin-bottom: .2mm; }
 ul.short { margin: 0; padding-left: 4mm; font-size: 7.6pt; }
 ul.short li { margin: .15mm 0; }
-.cols { display: grid; grid-template-columns: 44fr 56fr; column-gap: 4mm; }
-.foot { display: grid; grid-template-columns: 66fr 34fr; column-gap: 4mm; }
+.foot { display: grid; grid-template-columns: 60fr 40fr; column-gap: 4mm; }
 .foot > section { min-width: 0; }
-.cols > section { min-width: 0; }
 table.t { width: 100%; border-collapse: collapse; }
-table.t th, table.t td { text-align: left; vertical-align: top; padding: .3mm 1mm; border-bottom: .2mm solid #dde4ea; }
-table.t thead th { font-weight: 600; color: #40505f; border-bottom: .3mm solid #9fb2c1; }
+table.t th, table.t td { text-align: left; vertical-align: top; padding: .2mm .8mm; border-bottom: .2mm solid #dde4ea; }
+table.t thead th { font-size: 6.6pt; font-weight: 600; color: #40505f; border-bottom: .3mm solid #9fb2c1; }
 table.t tbody th { font-weight: 500; color: #2c3a47; }
-table.inputs tbody th, table.prisms tbody th { width: 24%; }
-table.inputs td { width: 38%; }
-table.prisms td { width: 25%; }
-table.prisms td.n360 { width: 13%; white-space: nowrap; }
-table.prisms tr.key-row td, table.prisms tr.key-row th { background: #fbf4ea; }
-table.both tbody th { width: 28%; }
+table.inputs tbody th { width: 15%; }
+table.inputs td { width: 42.5%; }
+table.marks tbody th, table.eyes tbody th { width: 13%; white-space: nowrap; }
+table.marks td { width: 17.4%; }
+table.t tr.pair th, table.t tr.pair td { background: #f4f7f9; }
+.facts { margin: .5mm 0 0; overflow-wrap: anywhere; }
+.sub { color: #55626f; }
+.qh { margin: 1.2mm 0 .4mm; padding-bottom: .3mm; border-bottom: .3mm solid #2f5d7c; }
+.qh h2 { display: inline; margin: 0; padding: 0; border: 0; }
+.q { font-size: 6.6pt; font-style: italic; color: #44525f; }
+table.marks tbody td, table.eyes tbody td, table.marks tbody th, table.eyes tbody th { font-size: 6.7pt; }
+ul.demand { margin: .6mm 0 0; padding-left: 4mm; }
+ul.demand li { margin: .15mm 0; }
+.guide { color: #2c3a47; }
 table.tol td { white-space: nowrap; }
-table.tol td.what { white-space: normal; font-size: 6.8pt; color: #44525f; }
-.cols { margin-top: 1.6mm; }
+table.tol td.what { white-space: normal; font-size: 6.2pt; color: #44525f; }
 .strong { font-weight: 700; }
-.n360 { color: #55626f; }
 .as { font-size: 6.4pt; font-style: italic; color: #8a5a00; border: .2mm solid #d9b66a; border-radius: .8mm; padding: 0 .6mm; white-space: nowrap; }
 .src { color: #5b6874; font-size: 6.6pt; }
 .fail, .out .vd { color: #a31616; font-weight: 700; }
@@ -55,6 +61,9 @@ table.tol td.what { white-space: normal; font-size: 6.8pt; color: #44525f; }
 .k-prentice { border-color: #b4327a; border-top-style: dashed; }
 .k-paraxial { border-color: #1b8596; border-top-style: dotted; }
 .k-focimeter { border-color: #3f8a22; border-top-style: dashed; }
+.figs { margin-top: 1.4mm; }
+.figrow { display: grid; grid-template-columns: 82fr 18fr; column-gap: 2mm; align-items: center; }
+.figrow .cap { margin: 0; font-size: 6.4pt; }
 .figs .grid { display: grid; grid-template-columns: 150fr 212fr 150fr 212fr; column-gap: 2.5mm; }
 svg.fig { width: 100%; height: auto; display: block; font-family: inherit; }
 svg .fig-title { font-size: 9.5px; font-weight: 600; fill: #1d3f57; }

@@ -1,13 +1,17 @@
 /**
  * Tables over a lens family: a sweep (powers x decentrations: the four answers) and a
- * limits table (powers: the largest decentration within a tolerance). One home for the rows
+ * limits table (powers: the largest decentration within a tolerance; its rows are the
+ * range's, src/case/range.ts, for one direction and one tolerance). One home for the rows
  * and their file formats, used by the CLI (`decentra sweep`, `decentra limits --power`, with
  * worker threads) and by the app's export (in a Web Worker). No Node or DOM here.
  */
-import { type Lens, decentrationLimit, fourAnswers, isFailure } from '../optics/index.ts';
+import { type Lens, fourAnswers, isFailure } from '../optics/index.ts';
 import { flagOf } from './flags.ts';
 import { InputError } from './input.ts';
 import { type RawFields, buildLens, readLensForm } from './lensCase.ts';
+import { RANGE_COLUMNS, type RangeRow, type RangeSpec, angleDirection, lensRows, rangeCsvLine, rangeJsonLine, rangeLens } from './range.ts';
+
+export { rangeValues } from './rangeValues.ts';
 
 export type Row = Record<string, number | string | null>;
 
@@ -25,21 +29,6 @@ export interface BatchPlan {
   /** limits only: tolerance, Δ */
   maxPrism: number;
   format: 'csv' | 'json';
-}
-
-/**
- * The values of an inclusive range start..stop by step: the count is exact, and each value
- * is rounded to the inputs' decimals (0.1 steps give 0.3, not 0.30000000000000004).
- * Errors name `field` (or `stepField` for the step).
- */
-export function rangeValues(field: string, a: number, b: number, s: number, stepField = field): number[] {
-  const what = stepField === field ? 'step ' : '';
-  if (s === 0 && a !== b) throw new InputError(stepField, `${what}must not be 0`);
-  if (a !== b && Math.sign(b - a) !== Math.sign(s)) throw new InputError(stepField, `${what}${s} does not lead from ${a} to ${b}`);
-  const n = a === b ? 1 : Math.floor((b - a) / s + 1e-9) + 1;
-  if (n > 100000) throw new InputError(field, `gives ${n} values; at most 100000`);
-  const dec = Math.min(10, Math.max(...[a, b, s].map((v) => (String(v).split('.')[1] ?? '').length)));
-  return Array.from({ length: n }, (_, i) => Number((a + i * s).toFixed(dec)));
 }
 
 /** The lens of one power of the family, or the reason there is none. */
@@ -83,28 +72,37 @@ export function sweepPowerRows(plan: BatchPlan, p: number): Row[] {
   });
 }
 
-/** The limits row of one power. */
-export function limitsPowerRow(plan: BatchPlan, p: number): Row {
-  const { lens, sphereD, note } = familyLens(plan, p);
-  if (!lens) return { power: sphereD, exact: null, prentice: null, paraxial: null, difference: null, reason: note };
-  const { maxPrism } = plan;
-  const r = decentrationLimit(lens, plan.cr, plan.dirDeg, maxPrism);
-  const reason = r.exactReason === 'ok' ? 'ok' : r.exactReason === 'never-reached'
-    ? `the exact prism stays within ${maxPrism} Δ out to ${r.searchedToMm} mm`
-    : `the exact trace fails beyond ${r.searchedToMm} mm`;
-  const exact = r.exactReason === 'ok' ? r.exactMm : null;
+/**
+ * A limits plan as a range (src/case/range.ts): its powers, the family's cylinder and axis,
+ * one direction and one tolerance. The limits table's rows and files are the range's.
+ */
+export function limitsRangeSpec(plan: BatchPlan): RangeSpec {
+  const fields: RawFields = { ...plan.fields };
+  const form = readLensForm({ ...fields, sphere: plan.powers[0] ?? 0 }, flagOf);
+  delete fields.sphere; delete fields.cyl; delete fields.axis;
   return {
-    power: sphereD, front: lens.frontPowers[0], ct: lens.ctMm, exact, prentice: r.prenticeMm, paraxial: r.paraxialMm,
-    difference: exact !== null && r.prenticeMm !== null ? r.prenticeMm - exact : null, reason,
+    fields, spheres: plan.powers, cyls: [form.cylD], axes: [form.axisDeg], directions: [angleDirection(plan.dirDeg)],
+    tolerances: [plan.maxPrism], eye: plan.eye, crMm: plan.cr, decimals: 2,
   };
+}
+
+/** The limits row of one power: the range row (src/case/range.ts) of that lens. */
+export function limitsPowerRow(plan: BatchPlan, p: number): Row {
+  const spec = limitsRangeSpec(plan);
+  const r = lensRows(spec, rangeLens(spec, { sphere: p, cyl: spec.cyls[0]!, axis: spec.axes[0]! }))[0]!;
+  return { ...r };
+}
+
+/** The rows of one power: a sweep's decentrations, or the one limits row. */
+export function powerRows(plan: BatchPlan, p: number): Row[] {
+  return plan.kind === 'sweep' ? sweepPowerRows(plan, p) : [limitsPowerRow(plan, p)];
 }
 
 /** Rows of the given powers (all by default), power by power; `onPower(done)` after each. */
 export function batchRows(plan: BatchPlan, powers = plan.powers, onPower?: (done: number) => void): Row[] {
   const rows: Row[] = [];
   powers.forEach((p, i) => {
-    if (plan.kind === 'sweep') for (const r of sweepPowerRows(plan, p)) rows.push(r);
-    else rows.push(limitsPowerRow(plan, p));
+    for (const r of powerRows(plan, p)) rows.push(r);
     onPower?.(i + 1);
   });
   return rows;
@@ -117,16 +115,43 @@ export function csvCell(v: number | string | null): string {
   return /[",\n]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v;
 }
 
-const LIMIT_COLS = ['power', 'front', 'ct', 'exact', 'paraxial', 'prentice', 'difference', 'reason'];
-const LIMIT_HEAD = ['power_D', 'front_D', 'ct_mm', 'exact_mm', 'paraxial_mm', 'prentice_mm', 'prentice_minus_exact_mm', 'note'];
+/** The columns of the table (a sweep's from its first row; a limits table's the range's). */
+export function batchCols(plan: BatchPlan, first: Row): string[] {
+  return plan.kind === 'limits' ? [...RANGE_COLUMNS] : Object.keys(first);
+}
 
-/** The table as a file: CSV (a header, then a line per row) or one JSON object. */
-export function formatBatch(plan: BatchPlan, rows: Row[]): string {
-  if (plan.kind === 'sweep') {
-    if (plan.format === 'json') return JSON.stringify({ direction: plan.dirDeg, eye: plan.eye, cr: plan.cr, rows });
-    const cols = Object.keys(rows[0]!);
-    return [cols.join(','), ...rows.map((r) => cols.map((c) => csvCell(r[c] ?? null)).join(','))].join('\n');
+/** The file's head: the CSV header line, or the JSON text before the first row. */
+export function batchHead(plan: BatchPlan, first: Row): string {
+  if (plan.format === 'csv') return batchCols(plan, first).join(',');
+  if (plan.kind === 'limits') return '[';
+  return `${JSON.stringify({ direction: plan.dirDeg, eye: plan.eye, cr: plan.cr }).slice(0, -1)},"rows":[`;
+}
+
+/** Row `index`'s text, with the separator that goes before it. */
+export function batchRowText(plan: BatchPlan, r: Row, index: number, cols: readonly string[]): string {
+  if (plan.kind === 'limits') {
+    const row = r as unknown as RangeRow;
+    return plan.format === 'csv' ? `\n${rangeCsvLine(row, 2)}` : `${index ? ',' : ''}\n${rangeJsonLine(row)}`;
   }
-  if (plan.format === 'json') return JSON.stringify({ maxPrism: plan.maxPrism, direction: plan.dirDeg, cr: plan.cr, rows });
-  return [LIMIT_HEAD.join(','), ...rows.map((r) => LIMIT_COLS.map((c) => csvCell(r[c] ?? null)).join(','))].join('\n');
+  if (plan.format === 'csv') return `\n${cols.map((c) => csvCell(r[c] ?? null)).join(',')}`;
+  return `${index ? ',' : ''}${JSON.stringify(r)}`;
+}
+
+/** The file's tail, after the last row. */
+export function batchTail(plan: BatchPlan): string {
+  if (plan.format === 'csv') return '';
+  return plan.kind === 'limits' ? '\n]' : ']}';
+}
+
+/**
+ * The table as a file. A sweep: CSV (a header, then a line per row) or one JSON object. A
+ * limits table: the range's CSV (2 decimals) or JSON array (src/case/range.ts).
+ */
+export function formatBatch(plan: BatchPlan, rows: Row[]): string {
+  const first = rows[0] ?? {};
+  const cols = batchCols(plan, first);
+  const parts = [batchHead(plan, first)];
+  rows.forEach((r, i) => parts.push(batchRowText(plan, r, i, cols)));
+  parts.push(batchTail(plan));
+  return parts.join('');
 }

@@ -20,13 +20,30 @@ export interface ParsedArgs {
   positional: string[];
 }
 
+/** A short flag ("-x", "-h", "-x=5"), which decentra does not use; "-5" and "-.5" are numbers. */
+const SHORT_FLAG = /^-[^-\d.]/;
+
+/**
+ * Reads `argv` against `spec`. Everything else is positional (a case file), except `--` and
+ * short flags, which are refused with their own names. Errors are InputErrors naming the
+ * token; the CLI prints them on one line with control characters escaped (output.ts oneLine).
+ */
 export function parseArgs(argv: readonly string[], spec: FlagSpec): ParsedArgs {
   const values = new Map<string, string>();
   const switches = new Set<string>();
   const positional: string[] = [];
   for (let i = 0; i < argv.length; i++) {
     const tok = argv[i]!;
-    if (!tok.startsWith('--') || tok === '--') {
+    if (tok === '--') {
+      throw new InputError("'--'", "is not used by decentra: give flags and case files in any order, and a negative value right after its flag (--x -5)");
+    }
+    if (SHORT_FLAG.test(tok)) {
+      const name = tok.slice(1).split('=')[0]!;
+      const long = name === 'h' ? '--help' : `--${name}`;
+      const known = [...spec.values, ...spec.switches].includes(long.slice(2));
+      throw new InputError(tok.split('=')[0]!, known ? `is not a flag; did you mean ${long}?` : 'is not a flag: flags are long, as --name (see --help)');
+    }
+    if (!tok.startsWith('--')) {
       positional.push(tok);
       continue;
     }
@@ -53,6 +70,11 @@ export function parseArgs(argv: readonly string[], spec: FlagSpec): ParsedArgs {
     values.set(name, value);
   }
   return { values, switches, positional };
+}
+
+/** The error for a word that is neither a flag, nor a flag's value, nor an expected case file. */
+export function strayArgument(tok: string): InputError {
+  return new InputError(`'${tok}'`, 'unexpected argument: not a flag or the value of one (flags start with --)');
 }
 
 export { LENS_FLAGS, flagOf } from '../case/flags.ts';

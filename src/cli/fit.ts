@@ -2,8 +2,7 @@
  * `decentra fit case.json`: a whole binocular case as three answers that are never mixed
  * (docs/binocular.md): at the marks, the standard's verdict, and what the eyes do at the target.
  */
-import { readFileSync } from 'node:fs';
-import { type BinocularCase, CaseError, readCaseBytes } from '../case/caseFile.ts';
+import type { BinocularCase } from '../case/caseFile.ts';
 import { type FitReport, evaluateFit } from '../case/fit.ts';
 import {
   THREE_ANSWERS, demandWords, fixed, imbalanceWords, netHorizontalWords, offsetWords, prenticeVerdictWords, rotationWords,
@@ -15,6 +14,7 @@ import {
 } from '../optics/index.ts';
 import { parseArgs } from './args.ts';
 import { CAUTION, answerJson, table } from './format.ts';
+import { loadCaseFile } from './readFile.ts';
 
 export const FIT_HELP = `decentra fit: a whole binocular case from a case file, as three answers.
 
@@ -37,20 +37,7 @@ Then the slab-off order (focimeter terms, at the reading level) and colour fring
 --json prints one object; its keys are listed in docs/cli.md.
 `;
 
-export function loadCaseFile(path: string): BinocularCase {
-  let bytes: Uint8Array;
-  try {
-    bytes = readFileSync(path);
-  } catch (e) {
-    throw new InputError(path, `cannot be read (${(e as NodeJS.ErrnoException).code ?? 'error'})`);
-  }
-  try {
-    return readCaseBytes(bytes);
-  } catch (e) {
-    if (e instanceof CaseError) throw new InputError(`${path}: ${e.field}`, e.reason);
-    throw e;
-  }
-}
+export { loadCaseFile };
 
 const ZERO = 1e-10;
 

@@ -4,7 +4,7 @@ import { LIMITS, readTraceCase } from '../case/lensCase.ts';
 import { Placement, type TiltDrop, fourAnswersPlaced, solveFixation, tiltDropMm } from '../optics/index.ts';
 
 const TILT_DROPS: readonly TiltDrop[] = ['none', 'rule-of-thumb', 'centre-of-rotation'];
-import { LENS_FLAGS, flagOf, parseArgs, rawFields } from './args.ts';
+import { LENS_FLAGS, flagOf, parseArgs, rawFields, strayArgument } from './args.ts';
 import { CAUTION, answersTable, fourAnswersJson } from './format.ts';
 
 export const NEAR_HELP = `decentra near: where the eye looks through the lens at a target, and the prism there.
@@ -44,7 +44,7 @@ export function readPoint(flag: string, raw: string | undefined): [number, numbe
 export function runNear(argv: readonly string[]): string {
   const args = parseArgs(argv, NEAR_FLAGS);
   if (args.switches.has('help')) return NEAR_HELP;
-  if (args.positional.length) throw new InputError(args.positional[0]!, 'unexpected argument (flags start with --)');
+  if (args.positional.length) throw strayArgument(args.positional[0]!);
   const [tx, ty, tz] = readPoint('--at', args.values.get('at'));
   const opt = (flag: string, r: { min: number; max: number; unit: string }): number => {
     const v = args.values.get(flag);

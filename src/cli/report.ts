@@ -1,10 +1,10 @@
 /** `decentra report case.json --out summary.html`: the one-page clinician summary (docs/report.md). */
-import { writeFileSync } from 'node:fs';
 import { evaluateFit } from '../case/fit.ts';
 import { InputError } from '../case/input.ts';
 import { summaryHtml } from '../report/summary.ts';
 import { parseArgs } from './args.ts';
 import { loadCaseFile } from './fit.ts';
+import { oneLine, writeFileSafely } from './output.ts';
 
 export const REPORT_HELP = `decentra report: a one-page summary of a case for a referring clinician.
 
@@ -56,10 +56,6 @@ export function runReport(argv: readonly string[]): string {
   const page = summaryHtml(c, evaluateFit(c), { date });
   const out = args.values.get('out');
   if (out === undefined) return page;
-  try {
-    writeFileSync(out, page, 'utf8');
-  } catch (e) {
-    throw new InputError('--out', `cannot write '${out}' (${(e as NodeJS.ErrnoException).code ?? 'error'})`);
-  }
-  return `decentra report: wrote ${out}`;
+  writeFileSafely(out, page, '--out');
+  return `decentra report: wrote ${oneLine(out)}`;
 }

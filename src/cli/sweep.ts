@@ -7,7 +7,7 @@
 import { type BatchPlan, type Row, batchRows, formatBatch, rangeValues } from '../case/batch.ts';
 import { InputError, inRange, readNumber } from '../case/input.ts';
 import { LIMITS, readEye, readLensForm } from '../case/lensCase.ts';
-import { LENS_FLAGS, flagOf, parseArgs, rawFields } from './args.ts';
+import { LENS_FLAGS, flagOf, parseArgs, rawFields, strayArgument } from './args.ts';
 
 export const SWEEP_HELP = `decentra sweep: prism over a grid of powers and decentrations for a lens family.
 
@@ -26,6 +26,11 @@ Columns: power_D, decentration_mm, front_D, ct_mm, then for prentice, paraxial (
 thick lens), exact and focimeter: the prism magnitude in Δ, and error_prism (|Prentice| -
 |exact|, Δ), error_percent, status (ok, or why there is no exact value). An empty cell
 means no value.
+
+Rows are written as they are computed, so a long table starts at once and uses little
+memory; from 50000 rows the work is shared by worker threads, one per core, unless the
+machine is heavily loaded (set DECENTRA_WORKERS=N to choose, 0 for this thread only). A
+progress bar shows on stderr when it is a terminal. Ctrl-C stops at once.
 `;
 
 const SWEEP_FLAGS = {
@@ -49,7 +54,7 @@ export type SweepRow = Row;
 export function planSweep(argv: readonly string[]): SweepPlan | null {
   const args = parseArgs(argv, SWEEP_FLAGS);
   if (args.switches.has('help')) return null;
-  if (args.positional.length) throw new InputError(args.positional[0]!, 'unexpected argument (flags start with --)');
+  if (args.positional.length) throw strayArgument(args.positional[0]!);
   const powers = readRange('--power', args.values.get('power'), 'power');
   for (const p of powers) inRange('--power', p, LIMITS.sphere);
   const decs = readRange('--decentration', args.values.get('decentration'), 'length');

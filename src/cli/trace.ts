@@ -1,10 +1,11 @@
 /** `decentra trace`: the four answers at one visual point (docs/cli.md). */
+import { existsSync } from 'node:fs';
 import { InputError } from '../case/input.ts';
 import { readEye, readTraceCase } from '../case/lensCase.ts';
 import { loadCaseFile } from './fit.ts';
 import { type FourAnswers, Placement, centrationPoint, fourAnswers, fourAnswersPlaced, isFailure } from '../optics/index.ts';
 import { placementOf } from '../case/fit.ts';
-import { LENS_FLAGS, flagOf, parseArgs, rawFields } from './args.ts';
+import { LENS_FLAGS, flagOf, parseArgs, rawFields, strayArgument } from './args.ts';
 import { CAUTION, answersTable, fourAnswersJson, signed } from './format.ts';
 
 export const TRACE_HELP = `decentra trace: prism at one visual point of a thick lens, four ways.
@@ -54,13 +55,15 @@ const TRACE_FLAGS = { values: [...Object.keys(LENS_FLAGS), 'x', 'y'], switches: 
 export function runTrace(argv: readonly string[]): string {
   const args = parseArgs(argv, TRACE_FLAGS);
   if (args.switches.has('help')) return TRACE_HELP;
-  if (args.positional.length > 1) throw new InputError(args.positional[1]!, 'unexpected argument (flags start with --)');
+  if (args.positional.length > 1) throw strayArgument(args.positional[1]!);
   let f = rawFields(args);
   let fromCase: { placement: Placement; side: 'right' | 'left' } | null = null;
   if (args.positional.length === 1) {
     // a case file gives the lens of one eye (--eye, default R), its fitting distance and its
     // placement; the visual point starts at that eye's mark and --x/--y move it
     const given = Object.keys(f).filter((k) => k !== 'eye');
+    // with lens flags, a word that is no file is a stray, not a case file
+    if (given.length && !existsSync(args.positional[0]!)) throw strayArgument(args.positional[0]!);
     if (given.length) throw new InputError(flagOf(given[0]!), 'comes from the case file; give only --eye, --x and --y with a case file');
     const c = loadCaseFile(args.positional[0]!);
     const side = f.eye === undefined ? 'right' : readEye('--eye', f.eye) === 'R' ? 'right' : 'left';

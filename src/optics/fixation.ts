@@ -30,6 +30,13 @@ export interface Fixation {
 
 const STATUS_NAMES: FixationStatus[] = ['ok', 'miss', 'tir', 'geometry', 'edge'];
 
+/**
+ * Largest start point (distance from the optical centre on the back vertex plane, mm) the
+ * search begins from: far beyond any lens (diameters are at most 100 mm), and small enough
+ * that every later sum and square stays finite.
+ */
+const MAX_START_MM = 1e6;
+
 export interface FixationOptions {
   /** convergence: miss distance at the target (mm) or direction error (rad) */
   tolerance?: number;
@@ -94,6 +101,12 @@ export function solveFixation(lens: Lens, pl: Placement, target: Target, opts: F
     const k = -sz / tz;
     cx = sx + k * tx;
     cy = sy + k * ty;
+  }
+  // a direction almost square to the lens axis (z = 5e-324, say) puts the start out of
+  // range of any number: no line of sight reaches such a target through the lens. Every
+  // number of a Fixation stays finite whatever its status.
+  if (!(Math.abs(cx) <= MAX_START_MM && Math.abs(cy) <= MAX_START_MM)) {
+    return { ...res, status: 'target', message: 'the target lies too far to the side to be seen through the lens' };
   }
   let st = residual(cx, cy);
   if (st !== RayStatus.ok) return fail(res, st, cx, cy, 0);

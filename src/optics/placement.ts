@@ -89,8 +89,17 @@ export class Placement {
  * components in the EYE (wearer) frame.
  */
 export function placedLineOfSight(lens: Lens, pl: Placement, cx: number, cy: number, out: LineTrace): RayStatus {
-  out.sx = pl.crLensX; out.sy = pl.crLensY; out.sz = pl.crLensZ;
   out.bx = cx; out.by = cy;
+  return placedLine(lens, pl, out);
+}
+
+/**
+ * placedLineOfSight's work, reading the visual point from (out.bx, out.by): the form for
+ * loops. It takes objects only, so it allocates nothing even where the compiler declines to
+ * inline the call (numbers passed to such a call are boxed; docs/performance.md).
+ */
+export function placedLine(lens: Lens, pl: Placement, out: LineTrace): RayStatus {
+  out.sx = pl.crLensX; out.sy = pl.crLensY; out.sz = pl.crLensZ;
   const st = lineOfSight(lens, out);
   if (st === RayStatus.ok && pl.tilted) setPrismComponents(out, pl.r);
   return st;

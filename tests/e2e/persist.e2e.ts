@@ -1,6 +1,7 @@
 /**
  * Saving in the app, end to end in Debian's Chromium: a case saved as a file opens again the
- * same (in the app and in the CLI), autosave survives a reload and a lost tab, hostile files
+ * same (in the app and in the CLI), autosave survives a reload and a lost tab, two tabs on
+ * one storage keep each other's cases and show a conflict on one case, hostile files
  * and hostile stored data change nothing and say why, the clinician summary opens in a tab
  * and prints to one page, and the batch exports are the CLI's output for the same inputs
  * (the built `node bin/decentra.mjs`), computed off the page's thread and cancellable.
@@ -253,7 +254,7 @@ test('sweep and limits exports are the CLI’s output for the same inputs', asyn
   expect(dl2.suggestedFilename()).toBe('decentra-limits.json');
   const json = readFileSync(await dl2.path(), 'utf8');
   expect(json).toBe(cli(['limits', '--power', '6:12:1', '--max-prism', '0.5', '--dir', '0', '--format', 'json', ...family]));
-  expect(JSON.parse(json).rows).toHaveLength(7);
+  expect(JSON.parse(json)).toHaveLength(7); // a limits table is an array of rows (docs/range.md)
 
   // a bad value names its field and nothing starts
   await put('power-step', '-1');
@@ -296,4 +297,83 @@ test('a long export shows progress, keeps the page live, and Cancel stops it', a
   expect(downloads).toBe(0);
   await expect(page.locator('#export-start')).toBeEnabled();
   await expect(page.locator('#export-cancel')).toBeDisabled();
+});
+
+// ---------------------------------------------------------------------------------------------
+// several tabs (docs/saving.md, "Several tabs"): two pages of one browser context share the
+// site's localStorage and see each other's 'storage' events, as two tabs do
+
+type Listed = { id: string; savedAt: number; rev?: number; doc: Doc };
+const recentInStorage = async (page: Page): Promise<Listed[]> =>
+  JSON.parse((await stored(page, 'decentra.recent.v1')) ?? '{"entries":[]}').entries as Listed[];
+
+/** Tab A with an invented case saved, and tab B opened on it (restored from storage). */
+async function twoTabsOnOneCase(page: Page, context: import('@playwright/test').BrowserContext, title: string) {
+  await openApp(page);
+  await setDoc(page, { ...CASE, title });
+  await expect.poll(async () => JSON.parse((await stored(page, 'decentra.working.v1')) ?? '{}').doc?.title).toBe(title);
+  const b = await context.newPage();
+  const bErrors = watchErrors(b);
+  await openApp(b);
+  expect((await storeDoc(b)).title).toBe(title);
+  return { b, bErrors };
+}
+
+test('two tabs: A starts a new case and sets a sphere, B makes one edit: both cases stay in storage and the list', async ({ page, context }) => {
+  const { b, bErrors } = await twoTabsOnOneCase(page, context, 'Invented scenario: open in two tabs');
+  // tab A: Case › New case, set a sphere (the edit autosaves after its debounce)
+  await menu(page, 'new');
+  const fresh = await storeDoc(page);
+  await setDoc(page, { ...fresh, right: { ...fresh.right, sphere: -2.5 } });
+  await expect.poll(async () => (await recentInStorage(page)).find((e) => e.doc.title === 'New case')?.doc.right.sphere).toBe(-2.5);
+  // B's menu already lists A's new case: the storage event refreshed it, before B saved anything
+  await b.locator('#case-menu-button').click();
+  await expect(b.locator('#case-menu-recent')).toContainText('New case');
+  await b.keyboard.press('Escape');
+  // tab B: one edit of the case it has open (its list in memory predates A's new case)
+  const bDoc = await storeDoc(b);
+  await setDoc(b, { ...bDoc, note: 'One edit in tab B.' });
+  await expect.poll(async () => (await recentInStorage(b)).find((e) => e.doc.title === 'Invented scenario: open in two tabs')?.doc.note)
+    .toBe('One edit in tab B.');
+  const titles = (await recentInStorage(b)).map((e) => e.doc.title);
+  expect(titles).toContain('New case');
+  expect(titles).toContain('Invented scenario: open in two tabs');
+  expect((await recentInStorage(b)).find((e) => e.doc.title === 'New case')!.doc.right.sphere).toBe(-2.5);
+  // B's menu shows A's case too (the storage event refreshed it), and no conflict was raised
+  await b.locator('#case-menu-button').click();
+  await expect(b.locator('#case-menu-recent')).toContainText('New case');
+  await expect(b.locator('#case-menu-recent')).toContainText('Invented scenario: open in two tabs');
+  await shot(b, 'two-tabs-recent');
+  await b.keyboard.press('Escape');
+  await expect(b.locator('.persist-notice[data-key="conflict"]')).toHaveCount(0);
+  // closing A loses nothing
+  await page.close({ runBeforeUnload: true });
+  const after = (await recentInStorage(b)).map((e) => e.doc.title);
+  expect(after).toContain('New case');
+  expect(after).toContain('Invented scenario: open in two tabs');
+  expect(bErrors).toEqual([]);
+});
+
+test('two tabs editing one case: the conflict is shown, both versions are kept, and the other one can be opened', async ({ page, context }) => {
+  const { b, bErrors } = await twoTabsOnOneCase(page, context, 'Invented scenario: edited in two tabs');
+  const aDoc = await storeDoc(page);
+  await setDoc(page, { ...aDoc, note: 'Edited in tab A.' });
+  await expect.poll(async () => (await recentInStorage(page)).map((e) => e.doc.note)).toContain('Edited in tab A.');
+  const bDoc = await storeDoc(b);
+  await setDoc(b, { ...bDoc, note: 'Edited in tab B.' });
+  const notice = b.locator('.persist-notice[data-key="conflict"]');
+  await expect(notice).toContainText('“Invented scenario: edited in two tabs” was also changed in another tab');
+  await expect(notice).toContainText('Both versions are kept');
+  await shot(b, 'conflict');
+  // both states are in storage, as two entries
+  const notes = (await recentInStorage(b)).map((e) => e.doc.note);
+  expect(notes).toContain('Edited in tab A.');
+  expect(notes).toContain('Edited in tab B.');
+  // B still shows its own edit; the notice offers A's version, which then opens in B
+  expect((await storeDoc(b)).note).toBe('Edited in tab B.');
+  await notice.getByRole('button', { name: 'Open the other tab’s version' }).click();
+  await expect.poll(async () => (await storeDoc(b)).note).toBe('Edited in tab A.');
+  // and B's own version stays in the list
+  expect((await recentInStorage(b)).map((e) => e.doc.note)).toContain('Edited in tab B.');
+  expect(bErrors).toEqual([]);
 });

@@ -19,7 +19,7 @@ import { type BatchRequest, batchRows, equivalentCommand, formatBatch, planBatch
 import { CaseKeeper } from '../../src/ui/persist/keeper.ts';
 import {
   type KeyValueStore, RECENT_KEY, RECENT_MAX, REJECTED_KEY, VIEW_KEY, WORKING_KEY, chooseViewQuery, loadRecent, loadView,
-  loadWorking, saveRecent, saveView, saveWorking,
+  loadWorking, mergeRecent, planWrite, saveRecent, saveView, saveWorking,
 } from '../../src/ui/persist/storage.ts';
 
 /** An in-memory Web Storage; `quota` (characters) and `deny` imitate a full or blocked store. */
@@ -272,6 +272,138 @@ describe('the keeper: the store autosaved', () => {
     expect(notices[0]).toMatch(/^Autosave failed: the browser’s storage for this page is full\. .*Save as file/);
     expect(store.get().pantoDeg).toBe(4);
     expect(keeper.recentList()).toHaveLength(1); // still offered in this tab
+  });
+});
+
+describe('several tabs: each save merges with what storage holds (docs/saving.md, "Several tabs")', () => {
+  beforeEach(() => { vi.useFakeTimers(); });
+  afterEach(() => { vi.useRealTimers(); });
+
+  const doc = (title: string, sphere = 0): CaseDocument => ({ ...DEMO_BINOCULAR, title, right: { ...DEMO_BINOCULAR.right, sphere } } as CaseDocument);
+  const entry = (id: string, savedAt: number, rev?: number, title = id) => ({ id, savedAt, doc: doc(title), ...(rev === undefined ? {} : { rev }) });
+
+  it('mergeRecent keeps every case of both lists, each in its latest revision, newest first', () => {
+    const stored = [entry('b', 50, 3, 'b from storage'), entry('a', 40, 1)];
+    const mine = [entry('c', 60, 1), entry('b', 55, 2, 'b stale in this tab')];
+    const m = mergeRecent(stored, mine);
+    expect(m.map((e) => e.id)).toEqual(['c', 'b', 'a']);
+    expect(m[1]!.doc.title).toBe('b from storage'); // revision 3 beats 2, though saved earlier
+    expect(mergeRecent([], Array.from({ length: RECENT_MAX + 3 }, (_, i) => entry(`x${i}`, i)))).toHaveLength(RECENT_MAX);
+  });
+
+  it('planWrite: a save continues the revision; a higher revision in storage is a conflict, and both states are kept', () => {
+    const stored = [entry('x', 10, 4, 'their state'), entry('y', 5, 1)];
+    const ok = planWrite(stored, [], { id: 'x', savedAt: 20, doc: doc('mine') }, 4);
+    expect(ok.conflict).toBeNull();
+    expect(ok.entry).toMatchObject({ id: 'x', rev: 5 });
+    expect(ok.list.map((e) => [e.id, e.doc.title])).toEqual([['x', 'mine'], ['y', 'y']]);
+
+    const clash = planWrite(stored, [entry('x', 8, 3, 'my old copy')], { id: 'x', savedAt: 20, doc: doc('mine') }, 3, () => 'fresh');
+    expect(clash.conflict?.doc.title).toBe('their state');
+    expect(clash.entry).toMatchObject({ id: 'fresh', rev: 1 });
+    expect(clash.list.map((e) => [e.id, e.doc.title])).toEqual([['fresh', 'mine'], ['x', 'their state'], ['y', 'y']]);
+  });
+
+  /** Two tabs: two keepers and two stores on one storage, both opened on the same saved case. */
+  const twoTabs = () => {
+    const storage = new FakeStorage();
+    let t = 1000;
+    const now = () => (t += 10);
+    // the saved case both tabs open on
+    const first = new CaseStore(doc('shared case'));
+    const k0 = new CaseKeeper({ storage, store: first, restored: null, notify: () => {}, now });
+    first.set(doc('shared case', 1), 'edit');
+    k0.flush();
+    k0.dispose();
+    const tab = (name: string) => {
+      const restored = loadWorking(storage).entry!;
+      const store = new CaseStore(restored.doc);
+      const notices: string[] = [];
+      const conflicts: { theirs: string; mine: string }[] = [];
+      const keeper = new CaseKeeper({
+        storage, store, restored, now, notify: (_k, text) => notices.push(text),
+        onConflict: (c) => conflicts.push({ theirs: c.theirs.doc.title!, mine: c.mine.doc.title! }),
+      });
+      return { name, store, keeper, notices, conflicts };
+    };
+    return { storage, a: tab('A'), b: tab('B') };
+  };
+
+  it('the issue\'s sequence: A starts a new case and sets a sphere, B makes one edit: both cases stay', () => {
+    const { storage, a, b } = twoTabs();
+    expect(a.keeper.currentId()).toBe(b.keeper.currentId());
+    a.store.set(doc('new in A'), 'new');
+    a.store.set(doc('new in A', -2.5), 'edit');
+    vi.advanceTimersByTime(1000);
+    b.store.set(doc('shared case', 1.25), 'edit'); // B's memory still holds the list from before A's new case
+    vi.advanceTimersByTime(1000);
+    const stored = loadRecent(storage).entries;
+    expect(stored.map((e) => e.doc.title).sort()).toEqual(['new in A', 'shared case']);
+    expect(stored.find((e) => e.doc.title === 'new in A')!.doc.right.sphere).toBe(-2.5);
+    expect(stored.find((e) => e.doc.title === 'shared case')!.doc.right.sphere).toBe(1.25);
+    // B's own list now shows A's case too; no conflict: they edited different cases
+    expect(b.keeper.recentList().map((e) => e.doc.title)).toContain('new in A');
+    expect([...a.conflicts, ...b.conflicts]).toEqual([]);
+    // closing A (its pending edits flushed) brings nothing back that was lost, and drops nothing
+    a.keeper.dispose();
+    expect(loadRecent(storage).entries).toHaveLength(2);
+  });
+
+  it('two tabs editing one case: the second to save is told, and neither state is lost', () => {
+    const { storage, a, b } = twoTabs();
+    const shared = a.keeper.currentId();
+    a.store.set({ ...a.store.doc(), note: 'A was here' }, 'edit');
+    a.keeper.flush();
+    b.store.set({ ...b.store.doc(), note: 'B was here' }, 'edit');
+    b.keeper.flush();
+    expect(a.conflicts).toEqual([]);
+    expect(b.conflicts).toEqual([{ theirs: 'shared case', mine: 'shared case' }]);
+    const stored = loadRecent(storage).entries;
+    expect(stored.find((e) => e.id === shared)!.doc.note).toBe('A was here');
+    expect(b.keeper.currentId()).not.toBe(shared);
+    expect(stored.find((e) => e.id === b.keeper.currentId())!.doc.note).toBe('B was here');
+    // both go on without a further conflict: A on the shared entry, B on its own
+    a.store.set({ ...a.store.doc(), note: 'A again' }, 'edit');
+    a.keeper.flush();
+    b.store.set({ ...b.store.doc(), note: 'B again' }, 'edit');
+    b.keeper.flush();
+    expect(b.conflicts).toHaveLength(1);
+    expect(a.conflicts).toHaveLength(0);
+    const after = loadRecent(storage).entries;
+    expect(after.map((e) => e.doc.note).sort()).toEqual(['A again', 'B again']);
+  });
+
+  it('a tab that saw the other tab\'s save (reopened it from the list) continues it without a conflict', () => {
+    const { a, b } = twoTabs();
+    const shared = a.keeper.currentId();
+    a.store.set({ ...a.store.doc(), note: 'A was here' }, 'edit');
+    a.keeper.flush();
+    b.store.set(doc('other'), 'new');
+    b.keeper.refresh();
+    const latest = b.keeper.recentList().find((e) => e.id === shared)!;
+    b.keeper.continueEntry(shared);
+    b.store.set(latest.doc, 'open');
+    b.store.set({ ...b.store.doc(), note: 'B continues A' }, 'edit');
+    b.keeper.flush();
+    expect(b.conflicts).toEqual([]);
+    expect(b.keeper.currentId()).toBe(shared);
+  });
+
+  it('continuous edits are saved at least every 2 s, not only after 0.4 s of quiet', () => {
+    const storage = new FakeStorage();
+    const store = new CaseStore();
+    const keeper = new CaseKeeper({ storage, store, restored: null, notify: () => {} });
+    // an edit every 100 ms for 5 s: never 0.4 s of quiet
+    for (let i = 1; i <= 50; i++) {
+      store.set({ ...store.doc(), pantoDeg: i % 20 }, 'edit');
+      vi.advanceTimersByTime(100);
+      if (i === 19) expect(keeper.saves).toBe(0); // 1.9 s in
+      if (i === 20) expect(keeper.saves).toBe(1); // 2.0 s in
+    }
+    expect(keeper.saves).toBe(2); // at 2 s and 4 s
+    vi.advanceTimersByTime(400); // the quiet after the last edit
+    expect(keeper.saves).toBe(3);
+    expect(loadWorking(storage).entry!.doc.pantoDeg).toBe(50 % 20);
   });
 });
 

@@ -263,8 +263,11 @@ export class CaseMenu {
     }
   }
 
-  openRecent(e: RecentEntry): void {
-    if (e.id === this.o.keeper.currentId()) return;
+  openRecent(listed: RecentEntry): void {
+    if (listed.id === this.o.keeper.currentId()) return;
+    // the latest state of that case: another tab may have saved it since this menu was drawn
+    this.o.keeper.refresh();
+    const e = this.o.keeper.recentList().find((x) => x.id === listed.id) ?? listed;
     try {
       this.o.keeper.continueEntry(e.id);
       this.o.store.set(e.doc, 'open');

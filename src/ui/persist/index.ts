@@ -9,7 +9,9 @@ import { ExportPanel } from '../exports/exportPanel.ts';
 import { CaseMenu, caseTitle, whenSaved } from './caseMenu.ts';
 import { CaseKeeper } from './keeper.ts';
 import { Notices } from './notices.ts';
-import { type KeyValueStore, type WorkingEntry, chooseViewQuery, loadView, loadWorking, saveView, storageProblem } from './storage.ts';
+import {
+  type KeyValueStore, RECENT_KEY, type WorkingEntry, chooseViewQuery, loadView, loadWorking, saveView, storageProblem,
+} from './storage.ts';
 
 export interface SavedState {
   storage: KeyValueStore | null;
@@ -80,6 +82,14 @@ export function startPersistence(o: PersistenceOptions): Persistence {
   let menu: CaseMenu | null = null;
   const keeper = new CaseKeeper({
     storage, store: o.store, restored: o.saved.working, notify, onRecent: (list) => menu?.renderRecent(list),
+    // two tabs edited one case: say which state is where, and offer the other tab's here
+    onConflict: ({ theirs, mine }) => notify(
+      'error',
+      `“${caseTitle(theirs.doc)}” was also changed in another tab (saved ${whenSaved(theirs.savedAt)}). Both versions are kept: ` +
+      `the other tab's under its own entry in Case › Recent cases, and this tab's, which stays open here, as a separate recent case (saved ${whenSaved(mine.savedAt)}).`,
+      'conflict',
+      { label: 'Open the other tab’s version', run: () => menu?.openRecent(theirs) },
+    ),
   });
   const exportsPanel = new ExportPanel({ getViewCase: o.getViewCase, notify });
   menu = new CaseMenu({ host: o.menuHost, store: o.store, keeper, notify, onExport: (k) => exportsPanel.show(k) });
@@ -90,6 +100,10 @@ export function startPersistence(o: PersistenceOptions): Persistence {
 
   const flush = () => keeper.flush();
   window.addEventListener('pagehide', flush);
+  // another tab wrote the recent list: show its cases too (each save merges in any case)
+  window.addEventListener('storage', (e) => {
+    if (e.key === RECENT_KEY || e.key === null) keeper.refresh();
+  });
   document.addEventListener('visibilitychange', () => {
     if (document.visibilityState === 'hidden') flush();
   });

@@ -1,14 +1,23 @@
 /**
  * Keeps the working binocular case safe: every change of the case store is written to the
- * browser's storage a moment later (debounced; at once when the page is hidden or closed),
- * and the case's entry in the recent list follows it. Opening a file, a recent case or a new
- * case starts a different entry, so the one before stays in the list: nothing is lost.
+ * browser's storage a moment later (debounced, and at least every MAX_WAIT_MS during
+ * continuous edits; at once when the page is hidden or closed), and the case's entry in the
+ * recent list follows it. Opening a file, a recent case or a new case starts a different
+ * entry, so the one before stays in the list: nothing is lost.
+ *
+ * Several tabs (docs/saving.md, "Several tabs"): each save is a read-modify-write of what
+ * storage holds at that moment (planWrite), never a rewrite from this tab's copy in memory,
+ * so a tab never drops another tab's case. Each case carries a revision; when another tab
+ * saved this case after this tab last saw it, the two tabs edited one case: the other tab's
+ * state keeps the entry, this tab's is saved as a separate case, and the person is told
+ * (onConflict) and offered the other state. Nothing is resolved silently.
+ *
  * No DOM (timers only), so the tests drive it in Node with a fake storage and fake timers.
  */
 import { type BinocularCase, type CaseDocument, writeCase } from '../../case/caseFile.ts';
 import type { CaseOrigin } from '../caseStore.ts';
 import {
-  type KeyValueStore, type RecentEntry, type WorkingEntry, loadRecent, newCaseId, saveRecent, saveWorking, withRecent,
+  type KeyValueStore, type RecentEntry, type WorkingEntry, loadRecent, mergeRecent, newCaseId, planWrite, saveRecent, saveWorking,
 } from './storage.ts';
 
 /** What the keeper needs of the case store (src/ui/caseStore.ts). */
@@ -17,8 +26,24 @@ export interface StoreLike {
   subscribe(l: (c: BinocularCase, origin: CaseOrigin) => void): () => void;
 }
 
+/** Quiet time after an edit before it is saved, ms. */
+export const DEBOUNCE_MS = 400;
+/** Longest time an edit waits to be saved while edits go on, ms. */
+export const MAX_WAIT_MS = 2000;
+
 export type NoticeKind = 'info' | 'error';
-export type Notify = (kind: NoticeKind, text: string, key?: string) => void;
+/** A button on a notice: its label and what it does. */
+export interface NoticeAction {
+  label: string;
+  run: () => void;
+}
+export type Notify = (kind: NoticeKind, text: string, key?: string, action?: NoticeAction) => void;
+
+/** Two tabs edited one case: the other tab's state (kept under the case's entry) and this tab's (saved as a new case). */
+export interface Conflict {
+  theirs: RecentEntry;
+  mine: RecentEntry;
+}
 
 export interface KeeperOptions {
   storage: KeyValueStore | null;
@@ -28,7 +53,10 @@ export interface KeeperOptions {
   notify: Notify;
   /** the recent list changed (for the menu) */
   onRecent?: (list: readonly RecentEntry[]) => void;
+  /** another tab saved the case open here after this tab last saw it (say so; offer theirs) */
+  onConflict?: (c: Conflict) => void;
   debounceMs?: number;
+  maxWaitMs?: number;
   now?: () => number;
 }
 
@@ -36,18 +64,25 @@ export class CaseKeeper {
   private id: string;
   private pending: { id: string; doc: CaseDocument } | null = null;
   private timer: ReturnType<typeof setTimeout> | null = null;
+  /** runs MAX_WAIT_MS after the first edit not yet saved */
+  private maxTimer: ReturnType<typeof setTimeout> | null = null;
   private nextId: string | null = null;
+  /** the revision of the open case this tab last saved or opened (0: not yet saved) */
+  private seenRev: number;
   private failing = false;
   private recent: RecentEntry[];
   private readonly unsubscribe: () => void;
   private readonly debounceMs: number;
+  private readonly maxWaitMs: number;
   private readonly now: () => number;
   /** saves written so far (for the tests) */
   saves = 0;
 
   constructor(private readonly o: KeeperOptions) {
     this.id = o.restored?.id ?? newCaseId();
-    this.debounceMs = o.debounceMs ?? 400;
+    this.seenRev = o.restored?.rev ?? 0;
+    this.debounceMs = o.debounceMs ?? DEBOUNCE_MS;
+    this.maxWaitMs = o.maxWaitMs ?? MAX_WAIT_MS;
     this.now = o.now ?? Date.now;
     const r = loadRecent(o.storage);
     this.recent = r.entries;
@@ -75,7 +110,10 @@ export class CaseKeeper {
       // a case identical to a recent one (a file saved and opened again) continues that entry
       this.flush();
       const text = writeCase(c.doc);
-      this.id = this.nextId ?? this.recent.find((e) => writeCase(e.doc) === text)?.id ?? newCaseId();
+      this.refresh();
+      const same = this.nextId !== null ? this.recent.find((e) => e.id === this.nextId) : this.recent.find((e) => writeCase(e.doc) === text);
+      this.id = this.nextId ?? same?.id ?? newCaseId();
+      this.seenRev = same?.rev ?? 0;
     }
     this.nextId = null;
     this.pending = { id: this.id, doc: c.doc };
@@ -86,21 +124,47 @@ export class CaseKeeper {
   private schedule(): void {
     if (this.timer !== null) clearTimeout(this.timer);
     this.timer = setTimeout(() => this.flush(), this.debounceMs);
+    // steady typing never leaves a quiet moment: save at least every maxWaitMs all the same
+    if (this.maxTimer === null) this.maxTimer = setTimeout(() => this.flush(), this.maxWaitMs);
+  }
+
+  /**
+   * Read the recent list again from storage (another tab wrote it: the page's 'storage'
+   * event), keeping this tab's cases that storage could not take.
+   */
+  refresh(): void {
+    const r = loadRecent(this.o.storage);
+    if (r.problem) this.o.notify('error', r.problem, 'recent-read');
+    const before = this.recent;
+    this.recent = mergeRecent(r.entries, this.recent);
+    if (this.recent.length !== before.length || this.recent.some((e, i) => e !== before[i])) this.o.onRecent?.(this.recent);
   }
 
   /** Write what is pending now (page hidden or closing, or a different case coming). */
   flush(): void {
     if (this.timer !== null) clearTimeout(this.timer);
+    if (this.maxTimer !== null) clearTimeout(this.maxTimer);
     this.timer = null;
+    this.maxTimer = null;
     const p = this.pending;
     if (!p) return;
     this.pending = null;
-    const entry: WorkingEntry = { id: p.id, savedAt: this.now(), doc: p.doc };
+    // read-modify-write: merge with what storage holds now, not with this tab's old copy
+    const stored = loadRecent(this.o.storage);
+    if (stored.problem) this.o.notify('error', stored.problem, 'recent-read');
+    const seen = p.id === this.id ? this.seenRev : 0;
+    const plan = planWrite(stored.entries, this.recent, { id: p.id, savedAt: this.now(), doc: p.doc }, seen);
+    const entry: WorkingEntry = plan.entry;
+    if (p.id === this.id) {
+      this.id = entry.id;
+      this.seenRev = entry.rev ?? 0;
+    }
     const w = saveWorking(this.o.storage, entry);
-    this.recent = withRecent(this.recent, entry);
+    this.recent = plan.list;
     const r = saveRecent(this.o.storage, this.recent);
     this.saves++;
     this.o.onRecent?.(this.recent);
+    if (plan.conflict) this.o.onConflict?.({ theirs: plan.conflict, mine: entry });
     if (!w.ok || !r.ok) {
       const reason = !w.ok ? w.reason : (r as { reason: string }).reason;
       if (!this.failing) {

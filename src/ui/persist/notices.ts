@@ -4,7 +4,7 @@
  * after a few seconds. Text only (textContent): nothing from a file or the storage is ever
  * read as markup.
  */
-import type { NoticeKind } from './keeper.ts';
+import type { NoticeAction, NoticeKind } from './keeper.ts';
 
 export class Notices {
   readonly element: HTMLElement;
@@ -17,7 +17,7 @@ export class Notices {
     parent.append(this.element);
   }
 
-  show(kind: NoticeKind, text: string, key?: string): void {
+  show(kind: NoticeKind, text: string, key?: string, action?: NoticeAction): void {
     if (key) this.byKey.get(key)?.remove();
     const n = document.createElement('div');
     n.className = `persist-notice persist-notice--${kind}`;
@@ -32,6 +32,15 @@ export class Notices {
     close.title = 'Dismiss';
     close.setAttribute('aria-label', 'Dismiss this notice');
     close.addEventListener('click', () => n.remove());
+    if (action) {
+      // one action on the notice (e.g. open the other tab's version); the notice goes with it
+      const act = document.createElement('button');
+      act.type = 'button';
+      act.className = 'persist-notice-action';
+      act.textContent = action.label;
+      act.addEventListener('click', () => { n.remove(); action.run(); });
+      p.append(' ', act);
+    }
     n.append(p, close);
     this.element.append(n);
     if (key) this.byKey.set(key, n);

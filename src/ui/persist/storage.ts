@@ -42,6 +42,12 @@ export interface WorkingEntry {
   /** ms since 1970 */
   savedAt: number;
   doc: CaseDocument;
+  /**
+   * Revision of this case: 1 at its first save, one more at each save by any tab. A tab that
+   * finds a higher revision in storage than the one it last saw knows another tab changed the
+   * case meanwhile (docs/saving.md, "Several tabs"). Absent in entries of older versions (0).
+   */
+  rev?: number;
 }
 
 /** A recent case, newest first in the list. */
@@ -51,7 +57,8 @@ export type Outcome = { ok: true } | { ok: false; reason: string };
 
 const Id = v.pipe(v.string(), v.regex(/^[A-Za-z0-9_-]{1,64}$/));
 const Time = v.pipe(v.number(), v.finite(), v.minValue(0));
-const EntrySchema = v.strictObject({ id: Id, savedAt: Time, doc: v.unknown() });
+const Rev = v.pipe(v.number(), v.integer(), v.minValue(0), v.maxValue(Number.MAX_SAFE_INTEGER));
+const EntrySchema = v.strictObject({ id: Id, savedAt: Time, rev: v.optional(Rev), doc: v.unknown() });
 const WorkingSchema = v.strictObject({ format: v.literal('decentra-autosave'), version: v.literal(1), ...EntrySchema.entries });
 const RecentSchema = v.strictObject({
   format: v.literal('decentra-recent'), version: v.literal(1), entries: v.pipe(v.array(v.unknown()), v.maxLength(100)),
@@ -142,14 +149,21 @@ function objectOnly(raw: unknown): unknown {
 function readEntry(raw: unknown): WorkingEntry {
   const r = v.safeParse(EntrySchema, objectOnly(raw));
   if (!r.success) throw new Error(schemaWhy(r.issues));
-  return { id: r.output.id, savedAt: r.output.savedAt, doc: readCase(r.output.doc).doc };
+  const e: WorkingEntry = { id: r.output.id, savedAt: r.output.savedAt, doc: readCase(r.output.doc).doc };
+  if (r.output.rev !== undefined) e.rev = r.output.rev;
+  return e;
+}
+
+/** The stored form of an entry (the revision only where there is one). */
+function entryFields(e: WorkingEntry): object {
+  return e.rev === undefined ? { id: e.id, savedAt: e.savedAt, doc: e.doc } : { id: e.id, savedAt: e.savedAt, rev: e.rev, doc: e.doc };
 }
 
 // ---------------------------------------------------------------------------------------------
 // the working case
 
 export function saveWorking(s: KeyValueStore | null, e: WorkingEntry): Outcome {
-  return write(s, WORKING_KEY, JSON.stringify({ format: 'decentra-autosave', version: 1, id: e.id, savedAt: e.savedAt, doc: e.doc }));
+  return write(s, WORKING_KEY, JSON.stringify({ format: 'decentra-autosave', version: 1, ...entryFields(e) }));
 }
 
 /** The autosaved case, checked; null (with the reason) when there is none or it is unreadable. */
@@ -160,7 +174,8 @@ export function loadWorking(s: KeyValueStore | null): { entry: WorkingEntry | nu
     const raw = objectOnly(parseJson(text, MAX_WORKING_CHARS));
     const w = v.safeParse(WorkingSchema, raw);
     if (!w.success) throw new Error(schemaWhy(w.issues));
-    return { entry: readEntry({ id: w.output.id, savedAt: w.output.savedAt, doc: w.output.doc }) };
+    const { format: _f, version: _v, ...fields } = w.output;
+    return { entry: readEntry(fields) };
   } catch (e) {
     setAside(s, WORKING_KEY, text);
     return { entry: null, problem: `The autosaved case could not be restored and was set aside (${why(e)}).` };
@@ -175,12 +190,62 @@ export function withRecent(list: readonly RecentEntry[], e: RecentEntry, max = R
   return [e, ...list.filter((x) => x.id !== e.id)].slice(0, max);
 }
 
+/** Is `a` a later state of its case than `b` (higher revision; then later save)? */
+function laterThan(a: RecentEntry, b: RecentEntry): boolean {
+  const ra = a.rev ?? 0, rb = b.rev ?? 0;
+  return ra !== rb ? ra > rb : a.savedAt > b.savedAt;
+}
+
+/**
+ * Two recent lists as one: every case of either (by id), each in its latest state, newest
+ * first, at most `max`. Used so that a tab's write never drops a case another tab stored
+ * (`stored`: what storage holds now) nor one this tab could not store (`mine`).
+ */
+export function mergeRecent(stored: readonly RecentEntry[], mine: readonly RecentEntry[], max = RECENT_MAX): RecentEntry[] {
+  const byId = new Map<string, RecentEntry>();
+  for (const e of [...stored, ...mine]) {
+    const had = byId.get(e.id);
+    if (!had || laterThan(e, had)) byId.set(e.id, e);
+  }
+  return [...byId.values()].sort((a, b) => b.savedAt - a.savedAt).slice(0, max);
+}
+
+/** What a tab writes for one save of case `id`: the merged list, the entry, and any conflict. */
+export interface WritePlan {
+  entry: RecentEntry;
+  list: RecentEntry[];
+  /**
+   * The other tab's state of the same case, when another tab saved it after this tab last
+   * saw it (its revision is above `seenRev`): it keeps its place and id in the list, and this
+   * tab's state is written as a separate case (`entry.id` is then a new id). Null otherwise.
+   */
+  conflict: RecentEntry | null;
+}
+
+/**
+ * Plan one save of case `id` by a tab that last saw it at revision `seenRev` (0: never
+ * saved): read-modify-write against what storage holds now (`stored`).
+ */
+export function planWrite(
+  stored: readonly RecentEntry[], mine: readonly RecentEntry[], save: { id: string; savedAt: number; doc: CaseDocument },
+  seenRev: number, freshId: () => string = newCaseId,
+): WritePlan {
+  const theirs = stored.find((e) => e.id === save.id) ?? null;
+  const conflict = theirs && (theirs.rev ?? 0) > seenRev ? theirs : null;
+  const entry: RecentEntry = conflict
+    ? { id: freshId(), savedAt: save.savedAt, doc: save.doc, rev: 1 }
+    : { id: save.id, savedAt: save.savedAt, doc: save.doc, rev: Math.max(seenRev, theirs?.rev ?? 0) + 1 };
+  // this tab's stale copy of the conflicting case must not hide the other tab's state
+  const own = conflict ? mine.filter((e) => e.id !== conflict.id) : mine;
+  return { entry, list: withRecent(mergeRecent(stored, own), entry), conflict };
+}
+
 /** Save the list; when the storage is full, keep as many of the newest as fit. */
 export function saveRecent(s: KeyValueStore | null, list: readonly RecentEntry[]): Outcome & { kept: number } {
   let n = list.length;
   let last: Outcome = { ok: true };
   for (;;) {
-    const entries = list.slice(0, n).map((e) => ({ id: e.id, savedAt: e.savedAt, doc: e.doc }));
+    const entries = list.slice(0, n).map(entryFields);
     last = write(s, RECENT_KEY, JSON.stringify({ format: 'decentra-recent', version: 1, entries }));
     if (last.ok || n === 0 || !/full/.test(last.reason)) return { ...last, kept: last.ok ? n : 0 };
     n = Math.floor(n / 2);

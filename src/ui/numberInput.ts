@@ -41,3 +41,35 @@ export function errorSlot(after: HTMLElement, id: string): HTMLDivElement {
   after.after(el);
   return el;
 }
+
+/** What showFieldError needs of a control: its element and its folder. */
+interface FieldControl {
+  domElement: HTMLElement;
+  parent: { open(): unknown };
+}
+
+/**
+ * Show one refused value's message under its field, outlined and marked invalid, and open its
+ * folder so that the message can be seen; clear every other message. `field` or `message`
+ * null clears all.
+ */
+export function showFieldError<K>(
+  errorEls: ReadonlyMap<K, HTMLElement>, controls: ReadonlyMap<K, FieldControl>, field: K | null, message: string | null,
+): void {
+  for (const [k, el] of errorEls) {
+    el.hidden = true;
+    el.textContent = '';
+    const d = controls.get(k)?.domElement;
+    d?.classList.remove('invalid');
+    d?.querySelector('input')?.removeAttribute('aria-invalid');
+  }
+  if (!message || field === null) return;
+  const ctl = controls.get(field);
+  const el = errorEls.get(field);
+  if (!ctl || !el) return;
+  ctl.domElement.classList.add('invalid');
+  ctl.domElement.querySelector('input')?.setAttribute('aria-invalid', 'true');
+  el.textContent = message;
+  el.hidden = false;
+  ctl.parent.open();
+}

@@ -1,43 +1,58 @@
 /**
- * The workspace switch in the header: "Single lens" (the visualiser of one lens) or "Both
- * eyes" (the binocular case). The "both eyes" workspace is built the first time it is shown
- * (its 3-D view needs its own WebGL context), and the choice is remembered for the browser
- * tab (sessionStorage), so a reload keeps it.
+ * The workspace switch in the header: "Single lens" (the visualiser of one lens), "Both
+ * eyes" (the binocular case) and "Range" (the decentration limits of a product range). A
+ * workspace may be built the first time it is shown (a 3-D view needs its own WebGL
+ * context), and the choice is remembered for the browser tab (sessionStorage), so a reload
+ * keeps it. The switch only shows and hides; each workspace owns its state and elements.
  */
-import type { CaseStore } from '../caseStore.ts';
-import { BinocularWorkspace } from './workspace.ts';
 
-export type WorkspaceName = 'single' | 'both';
+export type WorkspaceName = 'single' | 'both' | 'range';
 
+const NAMES: readonly WorkspaceName[] = ['single', 'both', 'range'];
 const STORAGE_KEY = 'decentra.workspace';
+
+export interface WorkspaceEntry {
+  /** the workspace's element (hidden while another is shown) */
+  element: HTMLElement;
+  /** build the workspace into its element; called once, the first time it is shown */
+  mount?: () => void;
+  /** called each time the workspace is shown (after mount) */
+  shown?: () => void;
+}
 
 export interface WorkspaceSwitch {
   current(): WorkspaceName;
   show(name: WorkspaceName): void;
-  /** the "both eyes" workspace, once built */
-  binocular(): BinocularWorkspace | null;
 }
 
 /**
- * Wire the switch. `single` is the single-lens workspace's element, `both` the empty element
- * that receives the "both eyes" workspace, `buttons` the switch's buttons (data-workspace).
+ * Wire the switch: `entries` gives each workspace's element (and how to build it), `buttons`
+ * the switch's buttons (data-workspace). The workspace remembered for this tab is shown.
  */
 export function setupWorkspaceSwitch(
-  store: CaseStore, single: HTMLElement, both: HTMLElement, buttons: HTMLButtonElement[],
+  entries: Partial<Record<WorkspaceName, WorkspaceEntry>>, buttons: HTMLButtonElement[],
 ): WorkspaceSwitch {
-  let ws: BinocularWorkspace | null = null;
   let current: WorkspaceName = 'single';
+  const mounted = new Set<WorkspaceName>();
   const show = (name: WorkspaceName): void => {
+    const e = entries[name];
+    if (!e) return;
     current = name;
-    single.hidden = name !== 'single';
-    both.hidden = name !== 'both';
+    for (const n of NAMES) {
+      const other = entries[n];
+      if (other) other.element.hidden = n !== name;
+    }
     document.body.dataset.workspace = name;
     for (const b of buttons) {
       const on = b.dataset.workspace === name;
       b.setAttribute('aria-selected', String(on));
       b.tabIndex = on ? 0 : -1;
     }
-    if (name === 'both' && !ws) ws = new BinocularWorkspace(both, store);
+    if (!mounted.has(name)) {
+      mounted.add(name);
+      e.mount?.();
+    }
+    e.shown?.();
     try {
       sessionStorage.setItem(STORAGE_KEY, name);
     } catch {
@@ -48,7 +63,8 @@ export function setupWorkspaceSwitch(
     b.addEventListener('click', () => show(b.dataset.workspace as WorkspaceName));
     b.addEventListener('keydown', (e) => {
       if (e.key !== 'ArrowRight' && e.key !== 'ArrowLeft') return;
-      const j = (buttons.indexOf(b) + 1) % buttons.length;
+      const n = buttons.length;
+      const j = (buttons.indexOf(b) + (e.key === 'ArrowRight' ? 1 : n - 1)) % n;
       buttons[j]!.focus();
       show(buttons[j]!.dataset.workspace as WorkspaceName);
     });
@@ -59,6 +75,6 @@ export function setupWorkspaceSwitch(
   } catch {
     saved = null;
   }
-  show(saved === 'both' ? 'both' : 'single');
-  return { current: () => current, show, binocular: () => ws };
+  show(NAMES.includes(saved as WorkspaceName) && entries[saved as WorkspaceName] ? saved as WorkspaceName : 'single');
+  return { current: () => current, show };
 }

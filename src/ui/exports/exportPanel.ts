@@ -3,21 +3,24 @@
  * tolerance, direction) for the lens family of the single-lens view, downloaded as CSV or
  * JSON. The rows are computed in a module worker (batch.worker.ts) with a progress bar and a
  * Cancel button; the page stays live meanwhile. The panel also shows the `decentra` command
- * that prints the same table.
+ * that prints the same table. The range workspace exports its limits table through the same
+ * panel (exportRange): the family is the workspace's, the file the one `decentra limits` prints.
  */
 import { InputError } from '../../case/input.ts';
 import { type ViewCase, toRawFields } from '../../case/url.ts';
 import { download } from '../persist/files.ts';
 import type { Notify } from '../persist/keeper.ts';
+import { commandLine, commandWords } from '../range/family.ts';
 import { type BatchRequest, type RangeText, equivalentCommand, planBatch } from './batch.ts';
 import type { BatchJob, BatchMessage } from './protocol.ts';
+import { type RangeExportRequest, type RangeExportSource, type RangeFileFormat, rangeExportSize, todayMs } from './range.ts';
 
 export interface ExportPanelOptions {
   getViewCase: () => ViewCase;
   notify: Notify;
 }
 
-type Kind = 'sweep' | 'limits';
+type Kind = 'sweep' | 'limits' | 'range';
 
 interface Inputs {
   powerFrom: HTMLInputElement;
@@ -38,11 +41,14 @@ const FIELD_INPUT: Record<string, keyof Inputs> = {
   tolerance: 'maxPrism', direction: 'dir',
 };
 
-const TITLES: Record<Kind, string> = { sweep: 'Export a sweep table', limits: 'Export a limits table' };
+const TITLES: Record<Kind, string> = { sweep: 'Export a sweep table', limits: 'Export a limits table', range: 'Export the range’s limits' };
 const INTROS: Record<Kind, string> = {
   sweep: 'Prism at each decentration along one direction, for each power of the lens family: Prentice’s rule, first-order, exact and focimeter, and Prentice’s error.',
   limits: 'For each power of the lens family: the largest decentration along one direction that keeps the prism at the eye within the tolerance, exactly, by first-order optics and by Prentice’s rule.',
+  range: 'For each sphere, cylinder, axis, direction and tolerance of the range: the exact, first-order, Prentice and focimeter limits, what ends the exact one, and the lens form used (CSV or JSON); or the printable spec sheet, whose breakdown chart is for the first cylinder, axis and direction, as decentra spec draws it.',
 };
+const FAMILY_SINGLE = 'Lens family: the lens of the single-lens view (material, front surface, thickness, cylinder, centre of rotation, eye), with each power below as its sphere.';
+const FAMILY_RANGE = 'Lens family and range: those of the Range workspace, as typed there now.';
 
 export class ExportPanel {
   readonly element: HTMLElement;
@@ -52,6 +58,11 @@ export class ExportPanel {
   private readonly intro: HTMLElement;
   private readonly decRow: HTMLElement;
   private readonly tolRow: HTMLElement;
+  private readonly powRow: HTMLElement;
+  private readonly dirRow: HTMLElement;
+  private readonly family: HTMLElement;
+  /** the range workspace's family, while the panel exports it */
+  private rangeSource: RangeExportSource | null = null;
   private readonly command: HTMLElement;
   private readonly error: HTMLElement;
   private readonly status: HTMLElement;
@@ -86,7 +97,8 @@ export class ExportPanel {
     this.intro.className = 'export-intro';
     const family = document.createElement('p');
     family.className = 'export-family';
-    family.textContent = 'Lens family: the lens of the single-lens view (material, front surface, thickness, cylinder, centre of rotation, eye), with each power below as its sphere.';
+    family.textContent = FAMILY_SINGLE;
+    this.family = family;
 
     const input = (key: string, value: string, label: string): HTMLInputElement => {
       const i = document.createElement('input');
@@ -110,10 +122,10 @@ export class ExportPanel {
       dir: input('dir', '0', 'direction, degrees'),
       format: document.createElement('select'),
     };
-    for (const f of ['csv', 'json']) {
+    for (const [f, label] of [['csv', 'CSV'], ['json', 'JSON'], ['spec', 'Spec sheet (HTML)']]) {
       const opt = document.createElement('option');
-      opt.value = f;
-      opt.textContent = f.toUpperCase();
+      opt.value = f!;
+      opt.textContent = label!;
       this.inputs.format.append(opt);
     }
     this.inputs.format.dataset.export = 'format';
@@ -134,12 +146,14 @@ export class ExportPanel {
     };
     const i = this.inputs;
     const powRow = row('Powers, D', 'from', i.powerFrom, 'to', i.powerTo, 'step', i.powerStep);
+    this.powRow = powRow;
     this.decRow = row('Decentration, mm', 'from', i.decFrom, 'to', i.decTo, 'step', i.decStep);
     this.tolRow = row('Tolerance, Δ', i.maxPrism);
     const dirNote = document.createElement('span');
     dirNote.className = 'export-note';
     dirNote.textContent = 'counter-clockwise from the wearer’s left (0° is nasal for a right eye, temporal for a left)';
     const dirRow = row('Direction, °', i.dir, dirNote);
+    this.dirRow = dirRow;
     const fmtRow = row('File', i.format);
 
     const cmdLabel = document.createElement('p');
@@ -195,10 +209,28 @@ export class ExportPanel {
     this.intro.textContent = INTROS[kind];
     this.decRow.hidden = kind !== 'sweep';
     this.tolRow.hidden = kind !== 'limits';
+    this.powRow.hidden = kind === 'range';
+    this.dirRow.hidden = kind === 'range';
+    this.family.textContent = kind === 'range' ? FAMILY_RANGE : FAMILY_SINGLE;
+    if (kind !== 'range') this.rangeSource = null;
+    // the spec sheet is the range's only
+    const specOption = this.inputs.format.querySelector<HTMLOptionElement>('option[value="spec"]')!;
+    specOption.hidden = kind !== 'range';
+    specOption.disabled = kind !== 'range';
+    if (kind !== 'range' && this.inputs.format.value === 'spec') this.inputs.format.value = 'csv';
     this.element.dataset.kind = kind;
     this.element.hidden = false;
     this.refresh();
-    this.inputs.powerFrom.focus();
+    if (kind === 'range') this.startButton.focus();
+    else this.inputs.powerFrom.focus();
+  }
+
+  /** Export the range workspace's limits table (its family as typed when Export is pressed). */
+  exportRange(format: RangeFileFormat, source: RangeExportSource): void {
+    if (this.worker) this.cancel();
+    this.rangeSource = source;
+    this.inputs.format.value = format;
+    this.show('range');
   }
 
   hide(): void {
@@ -206,9 +238,16 @@ export class ExportPanel {
     this.element.hidden = true;
   }
 
-  /** The request the inputs describe, for the single-lens view's lens family now. */
-  request(): BatchRequest {
+  /** The request the inputs describe, for the single-lens view's lens family (or the range's) now. */
+  request(): BatchRequest | RangeExportRequest {
     const i = this.inputs;
+    if (this.kind === 'range') {
+      const f = this.rangeSource?.form();
+      if (!f) throw new InputError('range', 'open the Range workspace to export its table');
+      if (!f.ok) throw new InputError('range', f.message);
+      const format: RangeFileFormat = i.format.value === 'json' ? 'json' : i.format.value === 'spec' ? 'spec' : 'csv';
+      return { kind: 'range', form: f.form, chart: f.chart, format, dateMs: todayMs() };
+    }
     const fields = toRawFields({ ...this.o.getViewCase(), pointMode: 'xy' }, { dir: 'direction', dist: 'distance' });
     const power: RangeText = { from: i.powerFrom.value, to: i.powerTo.value, step: i.powerStep.value };
     const format = i.format.value === 'json' ? 'json' : 'csv';
@@ -219,10 +258,18 @@ export class ExportPanel {
   }
 
   /** Check the inputs (marking the field at fault) and show the equivalent command. */
-  private refresh(): BatchRequest | null {
+  private refresh(): BatchRequest | RangeExportRequest | null {
     for (const el of Object.values(this.inputs)) el.removeAttribute('aria-invalid');
     try {
       const req = this.request();
+      if (req.kind === 'range') {
+        rangeExportSize(req);
+        this.command.textContent = commandLine(req.format === 'spec'
+          ? commandWords(req.form, 'spec')
+          : [...commandWords(req.form, 'limits'), '--format', req.format]);
+        this.error.hidden = true;
+        return req;
+      }
       const plan = planBatch(req);
       this.command.textContent = equivalentCommand(plan, req);
       this.error.hidden = true;
@@ -231,7 +278,9 @@ export class ExportPanel {
       if (!(e instanceof InputError)) throw e;
       const key = FIELD_INPUT[e.field];
       if (key) this.inputs[key].setAttribute('aria-invalid', 'true');
-      this.error.textContent = key ? e.message : `The single-lens view’s lens: ${e.message}`;
+      this.error.textContent = key ? e.message : this.kind === 'range'
+        ? `The Range workspace’s family: ${e.field === 'range' ? e.reason : e.message}`
+        : `The single-lens view’s lens: ${e.message}`;
       this.error.hidden = false;
       this.command.textContent = '—';
       return null;
@@ -258,13 +307,13 @@ export class ExportPanel {
     w.postMessage({ id, request: req } satisfies BatchJob);
   }
 
-  private receive(m: BatchMessage, req: BatchRequest): void {
+  private receive(m: BatchMessage, req: BatchRequest | RangeExportRequest): void {
     if (m.id !== this.jobId || !this.worker) return;
     if (m.type === 'progress') {
       this.progress.max = m.total;
       this.progress.value = m.done;
       const secs = (performance.now() - this.startedAt) / 1000;
-      this.status.textContent = `Computing: ${m.done} of ${m.total} powers (${secs.toFixed(1)} s)`;
+      this.status.textContent = `Computing: ${m.done} of ${m.total} ${req.kind === 'range' ? 'lenses' : 'powers'} (${secs.toFixed(1)} s)`;
       return;
     }
     this.stopWorker();
@@ -274,8 +323,10 @@ export class ExportPanel {
       this.status.textContent = 'Nothing was exported.';
       return;
     }
-    const name = `decentra-${req.kind}.${req.format}`;
-    download(`${m.text}\n`, name, req.format === 'csv' ? 'text/csv' : 'application/json');
+    const name = req.format === 'spec' ? 'decentra-spec.html' : `decentra-${req.kind}.${req.format}`;
+    const mime = req.format === 'csv' ? 'text/csv' : req.format === 'spec' ? 'text/html' : 'application/json';
+    // the CLI's bytes: its output and one final newline (a page that ends in one keeps it)
+    download(req.kind === 'range' && m.text.endsWith('\n') ? m.text : `${m.text}\n`, name, mime);
     this.progress.value = this.progress.max;
     this.status.textContent = `Done: ${m.rows} rows in ${(m.ms / 1000).toFixed(1)} s, saved as ${name}.`;
     this.element.dataset.done = String(Number(this.element.dataset.done ?? '0') + 1);

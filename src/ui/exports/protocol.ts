@@ -1,9 +1,10 @@
 /** Messages between the page and the batch-export worker (exports/batch.worker.ts). */
 import type { BatchRequest } from './batch.ts';
+import type { RangeExportRequest } from './range.ts';
 
 export interface BatchJob {
   id: number;
-  request: BatchRequest;
+  request: BatchRequest | RangeExportRequest;
 }
 
 export type BatchMessage =

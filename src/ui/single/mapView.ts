@@ -4,10 +4,10 @@
  * (worker/map.worker.ts); only the newest case is computed (a request made while one is
  * running waits and replaces any older waiting one). Clicking the map moves the visual point.
  */
-import type { Eye, LensSpec } from '../optics/index.ts';
-import { cssColourAt } from '../worker/colourScale.ts';
-import type { MapQuantity, MapRequest, MapResponse, MapResult } from '../worker/mapProtocol.ts';
-import { num } from './format.ts';
+import type { Eye, LensSpec } from '../../optics/index.ts';
+import { cssColourAt } from '../../worker/colourScale.ts';
+import type { MapQuantity, MapRequest, MapResponse, MapResult } from '../../worker/mapProtocol.ts';
+import { num } from '../format.ts';
 
 const NS = 'http://www.w3.org/2000/svg';
 export const MAP_SIZE = 201;
@@ -48,7 +48,7 @@ export class MapView {
   drawn = 0;
 
   constructor(host: HTMLElement) {
-    this.worker = new Worker(new URL('../worker/map.worker.ts', import.meta.url), { type: 'module' });
+    this.worker = new Worker(new URL('../../worker/map.worker.ts', import.meta.url), { type: 'module' });
     this.worker.onmessage = (e: MessageEvent<MapResponse>) => this.receive(e.data);
     this.worker.onerror = (e) => { this.status.textContent = `The map could not be computed: ${e.message}`; };
     const wrap = document.createElement('div');

@@ -3,13 +3,13 @@
  * the four answers, the profile along the current direction and the lens data. All optics
  * come from src/optics; this file only calls it and names the fields.
  */
-import { type FieldKey, readTraceCase, type TraceCase } from '../case/lensCase.ts';
-import { InputError } from '../case/input.ts';
-import { type ViewCase, type ViewField, toRawFields } from '../case/url.ts';
+import { type FieldKey, readTraceCase, type TraceCase } from '../../case/lensCase.ts';
+import { InputError } from '../../case/input.ts';
+import { type ViewCase, type ViewField, toRawFields } from '../../case/url.ts';
 import {
   type FourAnswers, type Lens, type PrismProfile, type SpheroCyl, fourAnswers, prismProfile, toSpheroCyl,
   findMaterial,
-} from '../optics/index.ts';
+} from '../../optics/index.ts';
 
 /** How each field is named in messages (and on screen). */
 export const FIELD_LABELS: Record<FieldKey, string> = {

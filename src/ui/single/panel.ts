@@ -4,10 +4,10 @@
  * said in words, never shown as NaN or Infinity. When the inputs are invalid the last valid
  * result stays, marked stale.
  */
-import type { Answer, PrismDescription } from '../optics/index.ts';
+import type { Answer, PrismDescription } from '../../optics/index.ts';
 import type { Computed } from './compute.ts';
-import { DASH, dioptres, num, signed, spheroCyl, withUnit } from './format.ts';
-import { ResultsPane, el } from './resultsPane.ts';
+import { DASH, dioptres, num, signed, spheroCyl, withUnit } from '../format.ts';
+import { ResultsPane, el } from '../resultsPane.ts';
 
 const ROWS: { key: 'prentice' | 'paraxial' | 'exact' | 'focimeter'; name: string; note: string }[] = [
   { key: 'prentice', name: 'Prentice', note: 'thin-lens rule, −F·c' },

@@ -4,9 +4,9 @@
  * Prentice error (%) in a second chart. The data are the engine's prismProfile.
  */
 import uPlot from 'uplot';
-import type { PrismProfile } from '../optics/index.ts';
-import { COLORS, css } from '../scene/palette.ts';
-import { num } from './format.ts';
+import type { PrismProfile } from '../../optics/index.ts';
+import { COLORS, css } from '../../scene/palette.ts';
+import { num } from '../format.ts';
 
 export interface ProfileInput {
   profile: PrismProfile;

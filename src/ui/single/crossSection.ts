@@ -4,10 +4,10 @@
  * from the engine's surfaces (Surface.pointAt) and the rays from the same paths as the 3-D
  * scene (scene/rayPaths.ts). Eye side on the left, object side on the right.
  */
-import { Hit, type Lens } from '../optics/index.ts';
-import { GLOBE_RADIUS_MM } from '../scene/eyeModel.ts';
-import type { RayPaths } from '../scene/rayPaths.ts';
-import { num } from './format.ts';
+import { Hit, type Lens } from '../../optics/index.ts';
+import { GLOBE_RADIUS_MM } from '../../scene/eyeModel.ts';
+import type { RayPaths } from '../../scene/rayPaths.ts';
+import { num } from '../format.ts';
 
 const NS = 'http://www.w3.org/2000/svg';
 const SAMPLES = 121;

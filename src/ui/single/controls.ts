@@ -6,10 +6,10 @@
  * (Shift: ten steps). Choices are selects. Nothing here computes optics.
  */
 import GUI, { type Controller } from 'lil-gui';
-import { readNumber, type Quantity } from '../case/input.ts';
-import type { ViewCase, ViewDisplay, ViewField } from '../case/url.ts';
-import { MATERIALS } from '../optics/index.ts';
-import { enableArrowSteps, errorSlot, formatStep } from './numberInput.ts';
+import { readNumber, type Quantity } from '../../case/input.ts';
+import type { ViewCase, ViewDisplay, ViewField } from '../../case/url.ts';
+import { MATERIALS } from '../../optics/index.ts';
+import { enableArrowSteps, errorSlot, formatStep, showFieldError } from '../numberInput.ts';
 
 interface NumberField {
   key: ViewField;
@@ -148,24 +148,9 @@ export class Controls {
 
   /** Show one message beside its field (or clear all messages when message is null). */
   showError(field: ViewField | null, message: string | null): void {
-    for (const [k, el] of this.errorEls) {
-      el.hidden = true;
-      el.textContent = '';
-      const d = this.ctrl.get(k)?.domElement;
-      d?.classList.remove('invalid');
-      d?.querySelector('input')?.removeAttribute('aria-invalid');
-    }
-    if (!message || !field) return;
-    const ctl = this.ctrl.get(field);
-    const el = this.errorEls.get(field);
-    if (!ctl || !el) return;
-    ctl.domElement.classList.add('invalid');
-    ctl.domElement.querySelector('input')?.setAttribute('aria-invalid', 'true');
-    el.textContent = message;
-    el.hidden = false;
-    // make sure its folder is open so the message can be seen
-    ctl.parent.open();
+    showFieldError(this.errorEls, this.ctrl, field, message);
   }
+
 
   private num(folder: GUI, key: keyof typeof NUMBER_FIELDS): void {
     const spec = NUMBER_FIELDS[key]!;

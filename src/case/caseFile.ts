@@ -36,6 +36,8 @@ const EyeSchema = v.strictObject({
   ...lensEntries,
   /** prescribed prism: up to two entries (a horizontal and a vertical base word), or one 360° entry */
   prism: v.optional(v.pipe(v.array(PrismEntrySchema), v.maxLength(2))),
+  /** reading addition, D (kept from an imported prescription; not used by the single-vision trace) */
+  add: v.optional(num),
   /** monocular PD, mm */
   pd: num,
   /** back vertex to centre of rotation, mm */
@@ -241,6 +243,7 @@ function checkValues(doc: CaseDocument): BinocularCase {
       ocXMm = 0;
       ocYMm = 0;
     }
+    if (d.add !== undefined) inRange(label('add'), d.add, { min: 0, max: 6, unit: 'D' });
     const drop = tiltDropMm((doc.tiltDrop ?? 'none') as TiltDrop, pantoDeg, crMm);
     return { lens, pdMm, crMm, ocXMm, ocYMm: ocYMm - drop, prism: readPrism(label('prism'), d.prism ?? []), tiltDropMm: drop };
   };

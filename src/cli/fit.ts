@@ -2,7 +2,7 @@
  * `decentra fit case.json`: a whole binocular case as three answers that are never mixed
  * (docs/binocular.md): at the marks, the standard's verdict, and what the eyes do at the target.
  */
-import type { BinocularCase } from '../case/caseFile.ts';
+import { type BinocularCase, writeCase } from '../case/caseFile.ts';
 import { type FitReport, evaluateFit } from '../case/fit.ts';
 import {
   THREE_ANSWERS, demandWords, fixed, imbalanceWords, netHorizontalWords, offsetWords, prenticeVerdictWords, rotationWords,
@@ -13,12 +13,14 @@ import {
   type Answer, type EyeResult, type MarkEye, type SignedPair, type Verdict, isFailure, prismWords, ruleText,
 } from '../optics/index.ts';
 import { parseArgs } from './args.ts';
+import { FIT_FLAGS_HELP, FIT_VALUE_FLAGS, caseFromFitFlags, hasFitFlags } from './fitFlags.ts';
 import { CAUTION, answerJson, table } from './format.ts';
 import { loadCaseFile } from './readFile.ts';
 
-export const FIT_HELP = `decentra fit: a whole binocular case from a case file, as three answers.
+export const FIT_HELP = `decentra fit: a whole binocular case, from a case file or from flags, as three answers.
 
 Usage: decentra fit CASE.json [--json]
+       decentra fit --right-sphere D --left-sphere D --pd R,L [more flags below] [--json]
 
 Reads a Decentra case file (docs/case-file.md): both prescriptions (with any prescribed
 prism) and lens forms, PDs, optical-centre positions (direct or from the frame), tilt and
@@ -35,7 +37,8 @@ Prints three answers, each under its own heading (docs/binocular.md):
 
 Then the slab-off order (focimeter terms, at the reading level) and colour fringes (TCA).
 --json prints one object; its keys are listed in docs/cli.md.
-`;
+
+${FIT_FLAGS_HELP}`;
 
 export { loadCaseFile };
 
@@ -267,10 +270,18 @@ function wrap(s: string, width: number): string {
 }
 
 export function runFit(argv: readonly string[]): string {
-  const args = parseArgs(argv, { values: [], switches: ['json', 'help'] });
+  const args = parseArgs(argv, { values: FIT_VALUE_FLAGS, switches: ['json', 'help', 'print-case'] });
   if (args.switches.has('help')) return FIT_HELP;
-  if (args.positional.length !== 1) throw new InputError('CASE.json', 'give exactly one case file');
-  const c = loadCaseFile(args.positional[0]!);
+  const quick = hasFitFlags(args);
+  if (quick && args.positional.length) {
+    throw new InputError(`'${args.positional[0]!}'`, 'give a case file or the case as flags, not both (see fit --help)');
+  }
+  if (!quick && args.positional.length !== 1) {
+    throw new InputError('CASE.json', 'give exactly one case file, or the case as flags (--right-sphere, --left-sphere, --pd R,L, ...; see fit --help)');
+  }
+  if (!quick && args.switches.has('print-case')) throw new InputError('--print-case', 'prints the case made from flags; with a case file, the file is the case');
+  const c = quick ? caseFromFitFlags(args) : loadCaseFile(args.positional[0]!);
+  if (args.switches.has('print-case')) return writeCase(c.doc).trimEnd();
   const f = evaluateFit(c);
   if (args.switches.has('json')) return JSON.stringify(fitJson(c, f));
   return fitText(c, f);

@@ -25,7 +25,7 @@ Commands
   near        the visual point and prism for a target in front of the eye (exact trace)
   limits      the largest decentration within a prism tolerance, exactly and by Prentice
   spec        a printable spec sheet for a lens range: limits, where Prentice breaks down (HTML)
-  fit         a whole binocular case from a case file: at the marks, the standard's verdict, the eyes
+  fit         a whole binocular case (a case file, or flags): at the marks, the standard's verdict, the eyes
   report      a one-page printable summary of a case file for a referring clinician (HTML)
   import      a case file from an HL7 FHIR VisionPrescription (R4/R5 JSON)
   export      a case's prescription as an HL7 FHIR VisionPrescription (--fhir)

@@ -377,3 +377,57 @@ test('two tabs editing one case: the conflict is shown, both versions are kept, 
   expect((await recentInStorage(b)).map((e) => e.doc.note)).toContain('Edited in tab B.');
   expect(bErrors).toEqual([]);
 });
+
+test('a FHIR VisionPrescription imports through the Case menu; a hostile one is refused and changes nothing', async ({ page }) => {
+  // the example resource published with the HL7 FHIR R4 specification (VisionPrescription
+  // example 33123), retyped as tests/fixtures/fhir/ (see its README.md)
+  const fixture = 'tests/fixtures/fhir/visionprescription-example-33123.r4.json';
+  await openApp(page);
+  await setDoc(page, CASE);
+  await page.locator('#workspace-switch button[data-workspace="both"]').click();
+  await page.locator('#case-file-input').setInputFiles(fixture);
+  const notice = page.locator('.persist-notice').last();
+  await expect(notice).toContainText('Imported the prescription in visionprescription-example-33123.r4.json');
+  // the assumptions are shown to the person, in the app's words (no CLI flag)
+  await expect(notice).toContainText('assumed 32 mm per eye');
+  await expect(notice).toContainText('right.add: +2.00 D kept');
+  await expect(notice).not.toContainText('--pd');
+  // the published prescription: R -2.00 DS, 0.5 Δ base down, add +2.00; L -1.00 / -0.50 × 180, 0.5 Δ base up, add +2.00
+  const doc = await storeDoc(page);
+  expect(doc.title).toBe('Imported VisionPrescription 33123, written 2014-06-15');
+  expect(doc.right).toMatchObject({ sphere: -2, prism: [{ amount: 0.5, base: 'down' }], add: 2, pd: 32 });
+  expect(doc.left).toMatchObject({ sphere: -1, cyl: -0.5, axis: 0, prism: [{ amount: 0.5, base: 'up' }], add: 2, pd: 32 });
+  expect(doc.frame).toBeUndefined(); // nothing of the case before is kept
+  // the assumptions stay with the case, in its note (printed on the clinician summary)
+  expect(doc.note).toMatch(/^Imported from an HL7 FHIR VisionPrescription\. Assumed: PD: .*assumed 32 mm per eye/);
+  // and the both-eyes workspace shows it
+  const both = (key: string) => page.locator(`#workspace-both input[data-field="${key}"]`);
+  await expect(both('right.sphere')).toHaveValue(/^-2(\.0+)?$/);
+  await expect(both('left.sphere')).toHaveValue(/^-1(\.0+)?$/);
+  await expect(both('left.cyl')).toHaveValue(/^-0?\.50?$/);
+  await expect(page.locator('#workspace-both .results-summary')).toContainText('Imported VisionPrescription 33123');
+  await shot(page, 'fhir-import');
+
+  // hostile resources: refused with the path and the reason; the imported case stays as it was
+  const good = JSON.parse(readFileSync(fixture, 'utf8')) as Doc;
+  const spec = (i: number, patch: Doc): Doc => ({
+    ...good,
+    lensSpecification: good.lensSpecification.map((s: Doc, j: number) => (j === i ? { ...s, ...patch } : s)),
+  });
+  const hostile: [string, Doc, RegExp][] = [
+    ['eye-middle.json', spec(0, { eye: 'middle' }), /lensSpecification\.0\.eye: must be/],
+    ['base-sideways.json', spec(1, { prism: [{ amount: 0.5, base: 'sideways' }] }), /lensSpecification\.1\.prism\.0\.base: must be/],
+    ['axis-181.json', spec(1, { axis: 181 }), /lensSpecification\.1\.axis: must be between 0 and 180/],
+    ['wrong-type.json', { ...good, resourceType: 'Patient' }, /resourceType: must be "VisionPrescription"/],
+  ];
+  const imported = await storeDoc(page);
+  for (const [name, resource, why] of hostile) {
+    await page.locator('#case-file-input').setInputFiles({ name, mimeType: 'application/fhir+json', buffer: Buffer.from(JSON.stringify(resource)) });
+    const refused = page.locator('.persist-notice--error').last();
+    await expect(refused).toContainText(`${name} was not opened`);
+    await expect(refused).toContainText(why);
+    await expect(refused).toContainText('Nothing was changed.');
+    if (name === 'eye-middle.json') await shot(page, 'fhir-hostile');
+    expect(await storeDoc(page), name).toEqual(imported);
+  }
+});

@@ -12,6 +12,8 @@ const power = fc.double({ min: -8, max: 8, noNaN: true }).map((v) => Math.round(
 const offset = fc.double({ min: -4, max: 4, noNaN: true });
 
 describe('the standard judges the marks only', () => {
+  // expectation: the tolerance standards judge a made pair on the focimeter at its reference
+  // points (ANSI Z80.1's prism rows; docs/binocular.md), which no target can move
   it('the verdicts are the same whatever the target (distance, near point, reading level)', () => {
     fc.assert(fc.property(power, power, offset, offset, offset, (rs, ls, dx, dy, dl) => {
       const make = (target: object) => evaluateFit(readCase({
@@ -29,6 +31,9 @@ describe('the standard judges the marks only', () => {
 });
 
 describe('prescribed prism', () => {
+  // expectation: base-in/out and up/down amounts are the two components of one prism vector
+  // (ISO 8429 notation; docs/conventions.md), so describing their sum gives them back; and the
+  // point found for a prism must read that prism on the same focimeter trace (a solver's contract)
   it('an amount with base words is described back with the same amounts and words, for either eye', () => {
     fc.assert(fc.property(
       fc.double({ min: 0.25, max: 10, noNaN: true }), fc.constantFrom('in', 'out'),

@@ -1,14 +1,21 @@
 /**
- * Published worked back-vertex-power problems (thick lens in air), checked against
- * backVertexPower and against the Lens built from them (its solved back surface).
+ * Worked back-vertex-power problems (thick lens in air), checked against backVertexPower and
+ * against the Lens built from them (its solved back surface).
+ *
+ * Where the numbers come from: two worked problems from an opticianry teaching web page whose
+ * address was not recorded, so the page cannot be cited. Each expected Fv was therefore
+ * checked by hand against the thick-lens formula Fv = F1 / (1 - (t/n) F1) + F2 (Jalie, The
+ * Principles of Ophthalmic Lenses; from memory): 10.25 / (1 - 0.004/1.586 × 10.25) - 3.00
+ * = 7.522 D, and 15.00 / (1 - 0.0065/1.523 × 15.00) - 6.00 = 10.026 D, each 7.52 and 10.03 D
+ * to the 0.01 D the problems give.
  */
 import { describe, expect, test } from 'vitest';
 import { Lens, backVertexPower, equivalentPower } from '../../src/optics/index.ts';
 
 export const source =
-  'worked back-vertex-power problems of an opticianry education site; ' +
-  'formula Fv = F1 / (1 - (t/n) F1) + F2 (Jalie, The Principles of Ophthalmic Lenses)';
-/** The published answers are rounded to 0.01 D: half a unit in the last place. */
+  'worked back-vertex-power problems (web page not recorded), checked by hand against ' +
+  'Fv = F1 / (1 - (t/n) F1) + F2 (Jalie, The Principles of Ophthalmic Lenses; from memory)';
+/** The problems' answers are rounded to 0.01 D: half a unit in the last place. */
 export const tolerance = 0.005;
 export const cases = [
   { what: 'polycarbonate', n: 1.586, f1: 10.25, f2: -3.0, tMm: 4, fv: 7.52 },
@@ -22,7 +29,7 @@ describe(`back vertex power (${source})`, () => {
 
   test.each(cases)('$what: the Lens for Fv $fv D on front $f1 D solves the back surface to $f2 D', (c) => {
     const lens = new Lens({ sphereD: c.fv, cylD: 0, axisDeg: 0, index: c.n, frontD: c.f1, ctMm: c.tMm });
-    // dF2 = dFv, so the rounding of the published Fv carries over unchanged
+    // dF2 = dFv, so the rounding of the given Fv carries over unchanged
     expect(Math.abs(lens.backPowers[0] - c.f2)).toBeLessThan(tolerance);
     expect(Math.abs(lens.backPowers[1] - c.f2)).toBeLessThan(tolerance);
     // the surfaces' curvatures are the true powers divided by the index step (F = (n' - n) / r)

@@ -74,7 +74,7 @@ describe('at the marks: the wide-frame case (-9.50 D, centres 3 mm outside each 
     expect(h!.value).toBeCloseTo(6, 9);
     expect(v).toMatchObject({ rule: 'mm', pass: true });
   });
-  it('base in at distance asks the eyes to diverge (prism displaces images towards its apex; common practice)', () => {
+  it('base in at distance asks the eyes to diverge (prism displaces images towards its apex; common practice, no source)', () => {
     expect(f.demand!.horizontal).toMatchObject({ base: 'in', asks: 'diverge' });
     expect(f.demand!.horizontal.amount).toBeCloseTo(f.result.exact!.netHorizontal, 12);
   });
@@ -155,8 +155,10 @@ describe('the standard judges the marks only', () => {
 });
 
 describe('prescribed prism', () => {
-  it('ISO 8429 360° notation of combined components (published course-notes check)', () => {
+  it('ISO 8429 360° notation of combined components (checked by hand)', () => {
     // right eye 1.5 Δ base up with 2 Δ base in = 2.5 Δ at 37°; left eye 1.5 Δ base down with 2 Δ base in = 2.5 Δ at 217°
+    // hand arithmetic: √(1.5² + 2²) = 2.5, atan(1.5 / 2) = 36.87°; base in is 0° for the right eye
+    // and 180° for the left in ISO 8429's notation (docs/conventions.md), so 180° + 36.87° for L
     const p = { x: 0, y: 0 };
     prescribedComponents([{ amount: 2, base: 'in' }, { amount: 1.5, base: 'up' }], 'R', p);
     const r = describePrism(p.x, p.y, 'R');
@@ -168,7 +170,7 @@ describe('prescribed prism', () => {
     prescribedComponents([{ amount: 2.5, angle: 217 }], 'L', p);
     expect(describePrism(p.x, p.y, 'L').horizontal.base).toBe('in');
   });
-  it('+4.00 D, 2 Δ base out each eye, centres decentred 5 mm out (published exam answer): within; not decentred: outside', () => {
+  it('+4.00 D, 2 Δ base out each eye, centres decentred 5 mm out (Prentice: c = P / F = 2 / 4 cm): within; not decentred: outside', () => {
     const pair = (dec: number) => doc({},
       { sphere: 4, material: 'resin-1.50', ct: 4.5, pd: 32, oc: { x: -dec, y: 0 }, prism: [{ amount: 2, base: 'out' }] },
       { sphere: 4, material: 'resin-1.50', ct: 4.5, pd: 32, oc: { x: dec, y: 0 }, prism: [{ amount: 2, base: 'out' }] });
@@ -232,7 +234,7 @@ describe('reading level and slab-off: R +1.00 / L +4.50, 10 mm below the distanc
       expect(s.order).toBeLessThanOrEqual(Math.abs(v) + 1e-12);
     }));
   });
-  it('a distance case judges slab-off at the usual reading level, 10 mm below the marks (common practice)', () => {
+  it('a distance case judges slab-off at the usual reading level, 10 mm below the marks (common practice, no source)', () => {
     const dist = evaluateFit(doc({}, { sphere: 1, material: 'resin-1.60', ct: 2.5, pd: 32 }, { sphere: 4.5, material: 'resin-1.60', ct: 5, pd: 32 }));
     expect(dist.slabOff.at).toBe('default-level');
     expect(dist.slabOff.order!.order).toBe(f.slabOff.order!.order);
@@ -240,7 +242,7 @@ describe('reading level and slab-off: R +1.00 / L +4.50, 10 mm below the distanc
 });
 
 describe('guidance, never a verdict', () => {
-  it('vertical: about 1 Δ tolerated by many (common practice); fusional amplitudes about 2.5-3 Δ (Ogle and Prangen 1953)', () => {
+  it('vertical: about 1 Δ tolerated by many (common practice, no source); fusional amplitudes about 2.5-3 Δ (Ogle and Prangen 1953)', () => {
     expect(verticalGuidance({ amount: 0.5, baseUpEye: 'R' }).band).toBe('small');
     expect(verticalGuidance({ amount: 1.5, baseUpEye: 'R' }).band).toBe('moderate');
     expect(verticalGuidance({ amount: 3, baseUpEye: 'L' }).band).toBe('large');

@@ -141,7 +141,7 @@ describe('binocular properties (fast-check)', () => {
 });
 
 describe('decentration for a prescribed prism', () => {
-  it('+4.00 D, 2 Δ base out: decentre 5 mm out by Prentice (published exam answer)', () => {
+  it('+4.00 D, 2 Δ base out: decentre 5 mm out by Prentice (c = P / F = 2 / 4 cm, by hand)', () => {
     const lens = makeLens({ sphereD: 4, cylD: 0, axisDeg: 0, index: 1.5, frontD: 8, ctMm: 4 });
     // right eye base out is px < 0 (docs/conventions.md, base-label table)
     const r = decentrationForPrism(lens, 27, -2, 0);
@@ -152,12 +152,15 @@ describe('decentration for a prescribed prism', () => {
     expect(r.exact!.x).toBeLessThan(5); // a thick plus lens gives more prism per mm than Prentice
   });
   it('a plano-cylinder cannot give prism along its axis by Prentice (det F = 0)', () => {
+    // expectation: a cylinder has no power along its axis meridian, so its dioptric power matrix
+    // is singular (det F = 0; Long, Am J Optom Physiol Opt 1976;53:27-33) and P = F c has no c
+    // for a prism along the axis: Prentice must decline rather than return a number
     const lens = makeLens({ sphereD: 0, cylD: 2, axisDeg: 90, index: 1.5, frontD: 6, ctMm: 3 });
     const r = decentrationForPrism(lens, 27, 0, 1);
     expect(r.prentice).toBeNull();
     expect(r.prenticeMessage).toMatch(/det F = 0/);
   });
-  it('minimum blank: ED + 2·decentration + 2 mm (common practice)', () => {
+  it('minimum blank: ED + 2·decentration + 2 mm (common practice, no source)', () => {
     expect(minimumBlankMm(54, 3, 0)).toBe(62);
     expect(minimumBlankMm(54, 3, 4)).toBe(66);
   });

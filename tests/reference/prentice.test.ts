@@ -10,8 +10,8 @@ import { type Eye, Lens, describePrism, fourAnswers, horizontalComponent } from 
 export const source =
   "Prentice's rule P = c F (Prentice, Arch Ophthalmol 1890); dioptric power matrix (Long, Am J Optom " +
   'Physiol Opt 1976;53:27-33); 360° base notation (ISO 8429:1986); worked checks in docs/conventions.md ' +
-  '(Prism: sign, base labels and the 360° notation); opticianry course notes on prism base notation; ' +
-  'a published exam answer on decentring';
+  '(Prism: sign, base labels and the 360° notation); the 360° and decentring examples are hand ' +
+  'arithmetic (Pythagoras and atan for the components; c = P / F by Prentice), their teaching sources not recorded';
 /** Prentice is linear arithmetic: only rounding separates the engine from the hand working. */
 export const tolerance = 1e-12;
 
@@ -92,8 +92,10 @@ describe(`Prentice's rule and notation (${source})`, () => {
   });
 });
 
-describe('360° base notation (ISO 8429; opticianry course notes)', () => {
-  // The published angles are whole degrees: half a degree.
+describe('360° base notation (ISO 8429; checked by hand)', () => {
+  // The example is a 3-4-5 triangle, checked by hand: √(1.5² + 2²) = 2.5 Δ and
+  // atan(1.5 / 2) = 36.87°, given as whole degrees (37°, and 180° + 37° = 217° for the left
+  // eye's base in and down) in course notes whose source was not recorded: half a degree.
   test('right eye 1.5 Δ base up with 2 Δ base in = 2.5 Δ at 37°', () => {
     const p = describePrism(horizontalComponent(2, 'in', 'R'), 1.5, 'R');
     expect(Math.abs(p.magnitude - 2.5)).toBeLessThan(1e-12);
@@ -121,8 +123,9 @@ describe('360° base notation (ISO 8429; opticianry course notes)', () => {
   });
 });
 
-describe('decentring for a prescribed prism (published exam answer; c = F⁻¹ P)', () => {
-  // +4.00 D both eyes, 2 Δ base out each eye -> decentre 5 mm out.
+describe('decentring for a prescribed prism (Prentice rearranged, c = F⁻¹ P; checked by hand)', () => {
+  // +4.00 D both eyes, 2 Δ base out each eye -> decentre 5 mm out: c = P / F = 2 / 4 cm = 5 mm
+  // (Prentice's rule, P = c F; a common exam question, its paper not recorded).
   // Solve p = -F c for c with a general-purpose library (mathjs inv), then check the engine's
   // Prentice value at that visual point and the direction of the decentration.
   for (const eye of ['R', 'L'] as const) {

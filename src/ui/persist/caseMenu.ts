@@ -1,5 +1,5 @@
 /**
- * The header's "Case" menu: new case, open a file, save as a file, the clinician summary
+ * The header's "Case" menu: new case, open a file (a case file or a FHIR prescription), save as a file, the clinician summary
  * (opened in a tab, or printed), the batch exports, and the recent cases. Every case change goes through the case store
  * (set(doc, origin)), which checks the document whole first; nothing here edits a case.
  * All text from cases and files is set with textContent.
@@ -7,7 +7,7 @@
 import { type CaseDocument, CaseError } from '../../case/caseFile.ts';
 import { InputError } from '../../case/input.ts';
 import type { CaseStore } from '../caseStore.ts';
-import { openSummary, printSummary, readCaseFile, saveCaseFile } from './files.ts';
+import { openSummary, printSummary, readCaseOrPrescriptionFile, saveCaseFile } from './files.ts';
 import type { CaseKeeper, Notify } from './keeper.ts';
 import type { RecentEntry } from './storage.ts';
 
@@ -73,7 +73,7 @@ export class CaseMenu {
 
     this.fileInput = document.createElement('input');
     this.fileInput.type = 'file';
-    this.fileInput.accept = '.json,application/json';
+    this.fileInput.accept = '.json,application/json,application/fhir+json';
     this.fileInput.id = 'case-file-input';
     this.fileInput.hidden = true;
     this.fileInput.addEventListener('change', () => {
@@ -89,7 +89,7 @@ export class CaseMenu {
     this.list.append(
       this.current,
       this.item('new', 'New case', 'Start from plano lenses; the case before stays under Recent cases', () => this.newCase()),
-      this.item('open', 'Open or import a file…', 'A .decentra.json case file (it is checked whole before it is used)', () => this.fileInput.click()),
+      this.item('open', 'Open or import a file…', 'A .decentra.json case file, or an HL7 FHIR VisionPrescription (R4 or R5 JSON); it is checked whole before it is used', () => this.fileInput.click()),
       this.item('save', 'Save as file', 'Download the case as a .decentra.json file', () => this.save()),
       this.item('summary', 'Clinician summary', 'One printable page for a referring clinician, in a new tab', () => this.summary()),
       this.item('print-summary', 'Print the clinician summary…', 'The same page, straight to the browser’s print dialog', () => this.summary(true)),
@@ -253,9 +253,14 @@ export class CaseMenu {
 
   async openFile(f: File): Promise<void> {
     try {
-      const c = await readCaseFile(f);
-      this.o.store.set(c.doc, 'open');
-      this.o.notify('info', `Opened ${f.name}. The case before is under Case › Recent cases.`, 'case');
+      const opened = await readCaseOrPrescriptionFile(f);
+      this.o.store.set(opened.case.doc, 'open');
+      if (opened.kind === 'fhir') {
+        const assumed = opened.notes.map((n) => `\n• ${n}`).join('');
+        this.o.notify('info', `Imported the prescription in ${f.name} (HL7 FHIR VisionPrescription). It carries only the prescription; check what was assumed (kept in the case’s note, on the clinician summary):${assumed}\nThe case before is under Case › Recent cases.`, 'case');
+      } else {
+        this.o.notify('info', `Opened ${f.name}. The case before is under Case › Recent cases.`, 'case');
+      }
     } catch (e) {
       const reason = e instanceof InputError ? e.message : `could not be read (${(e as Error).message})`;
       this.o.notify('error', `${f.name} was not opened: ${reason}. Nothing was changed.`, 'case');

@@ -1,11 +1,13 @@
 /**
  * Files in and out of the page: a case saved as a .decentra.json download, a file read as
- * bytes and checked whole by readCaseBytes before anything is applied, and the clinician
+ * bytes and checked whole by readCaseBytes before anything is applied (or, if it is a FHIR
+ * VisionPrescription, imported by src/case/fhir.ts with its assumptions listed), and the clinician
  * summary opened in a new tab from a Blob URL, or printed. The summary page is never put into
  * this page's document: printing loads it, unchanged and still script-free under its own
  * Content-Security-Policy, into a hidden frame and asks that frame's window to print.
  */
-import { type BinocularCase, CaseError, readCaseBytes, writeCase } from '../../case/caseFile.ts';
+import { type BinocularCase, CaseError, readCase, readCaseBytes, writeCase } from '../../case/caseFile.ts';
+import { MAX_FHIR_BYTES, importVisionPrescriptionText } from '../../case/fhir.ts';
 import { evaluateFit } from '../../case/fit.ts';
 import { summaryHtml } from '../../report/summary.ts';
 
@@ -38,13 +40,49 @@ export function saveCaseFile(c: BinocularCase): string {
   return name;
 }
 
-/** Read a chosen file and check it whole; throws a CaseError naming the field (nothing is applied). */
-export async function readCaseFile(file: File): Promise<BinocularCase> {
+/** What a chosen file held: a case file, or a FHIR prescription turned into a case (with its assumptions). */
+export interface OpenedFile {
+  kind: 'case' | 'fhir';
+  case: BinocularCase;
+  /** for an import: one line per value the resource lacked and what was assumed (docs/fhir.md) */
+  notes: string[];
+}
+
+/** A JSON object with a `resourceType` key is a FHIR resource (a case file never has that key). */
+function fhirText(bytes: Uint8Array): string | null {
+  if (bytes.length > MAX_FHIR_BYTES) return null;
+  try {
+    const text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
+    const raw: unknown = JSON.parse(text.replace(/^\uFEFF/, ''));
+    return typeof raw === 'object' && raw !== null && !Array.isArray(raw) && Object.hasOwn(raw, 'resourceType') ? text : null;
+  } catch {
+    return null; // not UTF-8 or not JSON: readCaseBytes says so
+  }
+}
+
+/** The import's notes name the CLI's flag for the PDs; in the app the PDs are set in the case. */
+function appNote(note: string): string {
+  return note.replace(': give --pd R,L', ': set each eye’s PD in the case');
+}
+
+/**
+ * Read a chosen file: a Decentra case file (checked whole by readCaseBytes), or a FHIR
+ * VisionPrescription (R4 or R5, alone or in a Bundle; docs/fhir.md) imported into a case with
+ * the same rules as `decentra import`. Throws a CaseError naming the field or the resource's
+ * path; nothing is applied.
+ */
+export async function readCaseOrPrescriptionFile(file: File): Promise<OpenedFile> {
   if (file.size > READ_LIMIT_BYTES) {
     throw new CaseError('file', `is ${Math.round(file.size / 1024)} kB; a case file is at most 256 kB`);
   }
   const bytes = new Uint8Array(await file.arrayBuffer());
-  return readCaseBytes(bytes);
+  const text = fhirText(bytes);
+  if (text === null) return { kind: 'case', case: readCaseBytes(bytes), notes: [] };
+  const imported = importVisionPrescriptionText(text);
+  const notes = imported.notes.map(appNote);
+  // the assumptions stay with the case (its note, printed on the clinician summary), not only in a passing notice
+  const note = `Imported from an HL7 FHIR VisionPrescription. Assumed: ${notes.join('; ')}.`.slice(0, 4000);
+  return { kind: 'fhir', case: readCase({ ...imported.doc, note }), notes };
 }
 
 let summaryUrl: string | null = null;

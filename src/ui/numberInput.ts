@@ -1,5 +1,5 @@
 /** Keyboard stepping for the number fields of both workspaces' controls. */
-import { type Quantity, readNumber } from '../case/input.ts';
+import { InputError, type Quantity, readNumber } from '../case/input.ts';
 
 export interface StepSpec {
   label: string;
@@ -21,7 +21,7 @@ export function enableArrowSteps(input: HTMLInputElement, spec: StepSpec, setVal
     if (e.key !== 'ArrowUp' && e.key !== 'ArrowDown') return;
     let v: number;
     try {
-      v = readNumber(spec.label, input.value, spec.quantity);
+      v = readTypedNumber(spec.label, input.value, spec.quantity);
     } catch {
       return;
     }
@@ -72,4 +72,58 @@ export function showFieldError<K>(
   el.textContent = message;
   el.hidden = false;
   ctl.parent.open();
+}
+
+/**
+ * The app's one reading of a decimal comma (docs/visualiser.md, "Decimal comma"): a single
+ * number typed with a comma as its decimal mark ("4,5", "-0,25", "2,5 mm") is the same number
+ * with a point; text with a comma and a point ("1,234.5", "1.234,5") or with more than one
+ * comma ("4,5,6") is refused with a hint naming the field, never guessed. Text without a
+ * comma is returned as it is. Only the app calls this: on the command line a comma separates
+ * list items (docs/cli.md).
+ */
+export function decimalPoint(field: string, raw: string): string {
+  const commas = raw.split(',').length - 1;
+  if (commas === 0) return raw;
+  if (commas > 1) {
+    throw new InputError(field, `'${clipText(raw)}' has more than one comma; type one number, with a point or a comma as its decimal mark (e.g. 4.5 or 4,5)`);
+  }
+  if (raw.includes('.')) {
+    throw new InputError(field, `'${clipText(raw)}' has both a comma and a point; use one decimal mark and no thousands separator (e.g. 1234.5)`);
+  }
+  return raw.replace(',', '.');
+}
+
+/** readNumber (src/case) of a typed value, after decimalPoint. */
+export function readTypedNumber(field: string, raw: string, quantity: Quantity): number {
+  return readNumber(field, decimalPoint(field, raw), quantity);
+}
+
+function clipText(s: string): string {
+  const t = s.trim();
+  return t.length > 24 ? `${t.slice(0, 24)}…` : t;
+}
+
+/**
+ * For a text field that holds one number: a decimal comma it can read (decimalPoint) becomes
+ * a point in the model and in the field at once, so that what is shown is what is read (the
+ * caret stays where it was). Text decimalPoint refuses is left as typed; the reader then
+ * refuses it with the hint.
+ */
+export function pointInField(model: Record<string, unknown>, key: string, label: string, input: HTMLInputElement): void {
+  const raw = model[key];
+  if (typeof raw !== 'string' || !raw.includes(',')) return;
+  let p: string;
+  try {
+    p = decimalPoint(label, raw);
+  } catch {
+    return;
+  }
+  model[key] = p;
+  if (input.value === p) return;
+  const focused = document.activeElement === input;
+  const a = input.selectionStart, b = input.selectionEnd;
+  input.value = p;
+  // lil-gui writes the model into the field after its onChange: put the caret back after that
+  if (focused && a !== null && b !== null) queueMicrotask(() => input.setSelectionRange(a, b));
 }

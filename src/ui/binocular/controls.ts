@@ -11,7 +11,7 @@
  */
 import GUI, { type Controller } from 'lil-gui';
 import { MATERIALS } from '../../optics/index.ts';
-import { enableArrowSteps, errorSlot } from '../numberInput.ts';
+import { enableArrowSteps, errorSlot, pointInField } from '../numberInput.ts';
 import {
   type BinocularForm, type CaseKey, type EyeKey, type FormField, SIDES, type Side, EYE_NAMES, TILT_DROP_CHOICES, fieldSpec,
   profileChoices, rangeHint,
@@ -235,7 +235,10 @@ export class BinocularControls {
     const hint = rangeHint(spec);
     if (hint) input.title = hint;
     enableArrowSteps(input, spec, (text) => c.setValue(text));
-    c.onChange(() => this.emitPrismAware(field));
+    c.onChange(() => {
+      pointInField(obj as unknown as Record<string, unknown>, key as string, spec.label, input);
+      this.emitPrismAware(field);
+    });
     this.attachError(field, c);
   }
 

@@ -1,7 +1,8 @@
 /**
  * The "both eyes" case as the person types it, and its round trip with the case document
  * (docs/case-file.md). Values stay text until an edit is sent: then every number is read by
- * src/case (readNumber: "2.5 mm" and "0.25 cm" both work, a bad value names its field) and
+ * src/case (readNumber, after the app's decimal comma, decimalPoint in ../numberInput.ts: "2.5 mm",
+ * "2,5 mm" and "0.25 cm" all work, a bad value names its field) and
  * the document is built; the store validates the whole of it (readCase). Pure: no DOM.
  *
  * A document field the form does not show (title, note, conic constants, cylinder surface,
@@ -10,7 +11,8 @@
  * unchanged until the person types a prism in base words, which then replaces it.
  */
 import type { BinocularCase, CaseDocument, EyeDocument } from '../../case/caseFile.ts';
-import { InputError, type Quantity, type Range, describeRange, readNumber } from '../../case/input.ts';
+import { InputError, type Quantity, type Range, describeRange } from '../../case/input.ts';
+import { readTypedNumber } from '../numberInput.ts';
 import { LIMITS } from '../../case/lensCase.ts';
 import { type PrismEntry, TOLERANCE_PROFILES, describePrism, prescribedComponents, prismWords } from '../../optics/index.ts';
 
@@ -309,7 +311,7 @@ export function prismFields(entries: readonly PrismEntry[], side: Side): PrismFi
 export function docFromForm(form: BinocularForm, base: CaseDocument): CaseDocument {
   const num = (f: FormField, raw: string): number => {
     try {
-      return readNumber(f, raw, fieldSpec(f).quantity);
+      return readTypedNumber(f, raw, fieldSpec(f).quantity);
     } catch (e) {
       if (e instanceof InputError) throw new InputError(f, e.reason);
       throw e;
@@ -423,7 +425,7 @@ function prismEntries(e: EyeForm, f: (k: EyeKey) => FormField): PrismEntry[] {
     const raw = e[k];
     if (raw.trim() === '') return undefined;
     try {
-      return readNumber(f(k), raw, 'prism');
+      return readTypedNumber(f(k), raw, 'prism');
     } catch (err) {
       if (err instanceof InputError) throw new InputError(f(k), err.reason);
       throw err;

@@ -11,7 +11,8 @@
  * seen facing the wearer (right eye: +x nasal; left eye: -x nasal). All optics from
  * src/optics; this file reads inputs, calls it and draws.
  */
-import { InputError, inRange, readNumber } from '../../case/input.ts';
+import { InputError, inRange } from '../../case/input.ts';
+import { readTypedNumber } from '../numberInput.ts';
 import {
   type Lens, type LimitResult, type PrescribedDecentration, decentrationForPrism, decentrationLimit,
   horizontalComponent, minimumBlankMm, toleranceOutline,
@@ -246,7 +247,7 @@ export class LimitsView {
       const spec = INPUT_SPECS[key];
       const err = this.errors.get(key)!;
       try {
-        val[key] = inRange(spec.label, readNumber(spec.label, inp.value, spec.quantity), spec.range);
+        val[key] = inRange(spec.label, readTypedNumber(spec.label, inp.value, spec.quantity), spec.range);
         err.hidden = true;
         inp.removeAttribute('aria-invalid');
       } catch (e) {

@@ -20,6 +20,7 @@ import { LimitsView } from './limitsView.ts';
 import { BinocularPanel } from './panel.ts';
 import { isFailed } from './words.ts';
 import { el } from '../resultsPane.ts';
+import { bindUndoKeys, undoButtons } from '../history.ts';
 
 export class BinocularWorkspace {
   readonly root: HTMLElement;
@@ -29,6 +30,8 @@ export class BinocularWorkspace {
   readonly limits: LimitsView;
   private readonly stale: HTMLElement;
   private readonly unsubscribe: () => void;
+  private readonly unbindKeys: () => void;
+  private readonly syncUndo: (canUndo: boolean, canRedo: boolean) => void;
   private last: BinocularComputed | null = null;
   /** the result of an edit being handed to the store (its listener then reuses it) */
   private expecting: BinocularComputed | null = null;
@@ -89,6 +92,10 @@ export class BinocularWorkspace {
       onEdit: (form, field) => this.edit(form, field),
       onRestoreDemo: () => this.restoreDemo(),
     });
+    // undo and redo of case edits (the store keeps the history): buttons above the controls, and the keys
+    const undo = { undo: () => { store.undo(); }, redo: () => { store.redo(); } };
+    this.syncUndo = undoButtons(controlsHost, undo, 'bi');
+    this.unbindKeys = bindUndoKeys(root, undo);
     this.unsubscribe = store.subscribe((c) => this.fromStore(c));
     this.show(evaluateCase(store.get()), null);
   }
@@ -119,7 +126,7 @@ export class BinocularWorkspace {
     }
     this.expecting = out.result;
     try {
-      this.store.set(doc, 'edit');
+      this.store.set(doc, 'edit', field);
     } catch (e) {
       // checked above; should the store still refuse it, say why at the field
       this.expecting = null;
@@ -154,6 +161,7 @@ export class BinocularWorkspace {
   /** Show a result, or a refusal (the last valid result stays, marked stale). */
   private show(out: BinocularOutcome, form: BinocularForm | null): void {
     this.updates++;
+    this.syncUndo(this.store.canUndo, this.store.canRedo);
     if (out.ok) {
       const r = out.result;
       this.last = r;
@@ -201,6 +209,7 @@ export class BinocularWorkspace {
 
   dispose(): void {
     this.unsubscribe();
+    this.unbindKeys();
     this.controls.dispose();
     this.scene.dispose();
     this.limits.dispose();

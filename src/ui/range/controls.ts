@@ -6,7 +6,8 @@
  */
 import GUI, { type Controller } from 'lil-gui';
 import { MATERIALS } from '../../optics/index.ts';
-import { errorSlot, showFieldError } from '../numberInput.ts';
+import { InputError } from '../../case/input.ts';
+import { decimalPoint, errorSlot, pointInField, showFieldError } from '../numberInput.ts';
 import { FAMILY_LABELS, type FamilyForm, type FamilyKey } from './family.ts';
 
 /** Placeholder-like hints beside the range fields. */
@@ -27,6 +28,9 @@ const LABELS: Record<FamilyKey, string> = {
   power: 'Spheres (D)', cyl: 'Cylinders (D)', axis: 'Axes (°)', dir: 'Directions', maxPrism: 'Tolerances (Δ)',
   levels: 'Breakdown levels (%)', decimals: 'Decimals in files',
 };
+
+/** The lens fields that hold one number each (the others are choices or lists). */
+const SINGLE_NUMBER: ReadonlySet<FamilyKey> = new Set<FamilyKey>(['index', 'abbe', 'front', 'base', 'toolIndex', 'ct', 'minEdge', 'minCt', 'diameter', 'cr']);
 
 export class RangeControls {
   readonly gui: GUI;
@@ -100,7 +104,21 @@ export class RangeControls {
     input.autocomplete = 'off';
     const hint = HINTS[key];
     if (hint) input.title = `${FAMILY_LABELS[key]}: ${hint}`;
-    c.onChange(() => this.onChange({ ...this.model }, key));
+    c.onChange(() => {
+      // a lens field holds one number: its decimal comma is the app's (decimalPoint); the
+      // range fields are lists in the command line's syntax, where a comma separates items
+      if (SINGLE_NUMBER.has(key)) {
+        pointInField(this.model as unknown as Record<string, unknown>, key, FAMILY_LABELS[key], input);
+        try {
+          decimalPoint(FAMILY_LABELS[key], String(this.model[key]));
+        } catch (e) {
+          if (!(e instanceof InputError)) throw e;
+          this.showError(key, e.message);
+          return;
+        }
+      }
+      this.onChange({ ...this.model }, key);
+    });
     this.attach(key, c);
   }
 

@@ -3,13 +3,15 @@
  *
  * Numeric fields are text fields read by src/case (so "2.5 mm" and "0.25 cm" both work and a
  * bad value gets a message naming the field), with the arrow keys stepping the value
+ * (a decimal comma is read by decimalPoint in ../numberInput.ts; "1,234.5" is refused)
  * (Shift: ten steps). Choices are selects. Nothing here computes optics.
  */
 import GUI, { type Controller } from 'lil-gui';
 import { readNumber, type Quantity } from '../../case/input.ts';
 import type { ViewCase, ViewDisplay, ViewField } from '../../case/url.ts';
 import { MATERIALS } from '../../optics/index.ts';
-import { enableArrowSteps, errorSlot, formatStep, showFieldError } from '../numberInput.ts';
+import { InputError } from '../../case/input.ts';
+import { decimalPoint, enableArrowSteps, errorSlot, formatStep, pointInField, showFieldError } from '../numberInput.ts';
 
 interface NumberField {
   key: ViewField;
@@ -43,6 +45,8 @@ const NUMBER_FIELDS: Record<string, NumberField> = {
 
 export interface ControlHandlers {
   onCase(c: ViewCase, field: ViewField): void;
+  /** a number field holds text the decimal comma rule refuses (the case is not sent) */
+  onRefused(field: ViewField, message: string): void;
   onDisplay(d: ViewDisplay): void;
   onRestoreDemo(): void;
   onCopyLink(): void;
@@ -160,7 +164,10 @@ export class Controls {
     input.setAttribute('data-field', spec.key);
     input.setAttribute('aria-describedby', `err-${spec.key}`);
     enableArrowSteps(input, spec, (text) => c.setValue(text));
-    c.onChange(() => this.emitCase(spec.key));
+    c.onChange(() => {
+      pointInField(this.model as unknown as Record<string, unknown>, spec.key, spec.label, input);
+      this.emitCase(spec.key);
+    });
     this.attachError(spec.key, c);
   }
 
@@ -224,6 +231,18 @@ export class Controls {
   }
 
   private emitCase(field: ViewField): void {
+    // a number field whose comma cannot be read keeps the case from being sent, with its hint
+    for (const spec of Object.values(NUMBER_FIELDS)) {
+      const raw = this.model[spec.key];
+      if (typeof raw !== 'string' || !raw.includes(',') || this.ctrl.get(spec.key)?._hidden) continue;
+      try {
+        decimalPoint(spec.label, raw);
+      } catch (e) {
+        if (!(e instanceof InputError)) throw e;
+        this.handlers.onRefused(spec.key, e.message);
+        return;
+      }
+    }
     this.handlers.onCase({ ...this.model }, field);
   }
 

@@ -13,6 +13,7 @@ import { COLORS, css } from '../../scene/palette.ts';
 import { allocateRayPaths, buildRayPaths } from '../../scene/rayPaths.ts';
 import { VIEW_NAMES, type ViewName } from '../../scene/viewer.ts';
 import { num } from '../format.ts';
+import { History, bindUndoKeys, undoButtons } from '../history.ts';
 import { el } from '../resultsPane.ts';
 import { type Computed, computeCase } from './compute.ts';
 import { Controls } from './controls.ts';
@@ -57,6 +58,9 @@ export class SingleLensWorkspace {
   private readonly stale: HTMLElement;
   private readonly mag: HTMLElement;
   private urlTimer = 0;
+  /** the valid cases this workspace has shown, for undo and redo (docs/visualiser.md) */
+  private history: History<ViewCase> | null = null;
+  private readonly syncUndo: (canUndo: boolean, canRedo: boolean) => void;
   /** what the end-to-end tests and the browser benchmark read (see hook()) */
   private readonly counters = { updates: 0, lastUpdateMs: 0 };
 
@@ -125,10 +129,16 @@ export class SingleLensWorkspace {
     this.map = new MapView(this.panes.get('map')!);
     this.controls = new Controls(controlsHost, this.viewCase, this.display, {
       onCase: (c, field) => { this.viewCase = c; this.update(field); },
+      onRefused: (field, message) => this.showInvalid(field, message),
       onDisplay: (d) => { this.display = { ...d, tab: this.display.tab }; this.dirty.section = true; this.update(null); },
       onRestoreDemo: () => { this.viewCase = { ...DEMO_CASE }; this.controls.setCase(this.viewCase); this.update(null); },
       onCopyLink: () => this.copyLink(),
     });
+
+    // undo and redo of case edits: buttons above the controls, and the keys
+    const undo = { undo: () => this.stepHistory('undo'), redo: () => this.stepHistory('redo') };
+    this.syncUndo = undoButtons(controlsHost, undo, 'single');
+    bindUndoKeys(root, undo);
 
     // preset views
     for (const [name, label] of Object.entries(VIEW_NAMES) as [ViewName, string][]) {
@@ -203,6 +213,15 @@ export class SingleLensWorkspace {
     this.update(null);
   }
 
+  /** Undo or redo: the whole case comes back, in the fields, the views and the address bar. */
+  private stepHistory(which: 'undo' | 'redo'): void {
+    const c = which === 'undo' ? this.history?.undo() : this.history?.redo();
+    if (!c) return;
+    this.viewCase = { ...c };
+    this.controls.setCase(this.viewCase);
+    this.update(null);
+  }
+
   private showTab(name: Tab): void {
     this.display = { ...this.display, tab: name };
     for (const t of this.tabs) {
@@ -258,7 +277,7 @@ export class SingleLensWorkspace {
   }
 
   /** Recompute and redraw everything for the current case (synchronously; the 3-D frame follows). */
-  private update(_field: ViewField | null): void {
+  private update(field: ViewField | null): void {
     const t0 = performance.now();
     const { display, scene, map, panel } = this;
     const out = computeCase(this.viewCase, this.lastDirection);
@@ -292,24 +311,32 @@ export class SingleLensWorkspace {
         map.request({ spec: r.lens.spec, crMm: r.tc.crMm, eye: r.tc.eye, quantity: display.mapQuantity });
       }
       map.setPoint(r.tc.xMm, r.tc.yMm);
-    } else {
-      this.controls.showError(out.field, out.message);
-      this.stale.hidden = false;
-      this.stale.textContent = this.last
-        ? `Invalid input (${out.message}). Showing the last valid lens, stale.`
-        : `Invalid input: ${out.message}.`;
-      if (this.last) {
-        panel.setStale(out.message);
-        scene.markInvalid();
-      } else panel.setEmpty(out.message);
-      map.setStale(true);
-    }
+      // a valid case is a step of the history (edits of one field in quick succession are one)
+      const c = { ...this.viewCase };
+      if (!this.history) this.history = new History<ViewCase>(c, (p, q) => caseToQuery(p) === caseToQuery(q));
+      else this.history.record(c, field);
+    } else this.showInvalid(out.field, out.message);
+    this.syncUndo(this.history?.canUndo ?? false, this.history?.canRedo ?? false);
     this.mag.hidden = display.mag === 1;
     this.mag.textContent = `Deviations drawn ×${display.mag}, not to scale`;
     this.updateBadge();
     this.writeUrl();
     this.counters.lastUpdateMs = performance.now() - t0;
     this.counters.updates++;
+  }
+
+  /** A refused value: its message at its field, the last valid lens kept on screen, stale. */
+  private showInvalid(field: ViewField | null, message: string): void {
+    this.controls.showError(field, message);
+    this.stale.hidden = false;
+    this.stale.textContent = this.last
+      ? `Invalid input (${message}). Showing the last valid lens, stale.`
+      : `Invalid input: ${message}.`;
+    if (this.last) {
+      this.panel.setStale(message);
+      this.scene.markInvalid();
+    } else this.panel.setEmpty(message);
+    this.map.setStale(true);
   }
 
   private updateBadge(): void {
@@ -363,6 +390,7 @@ export class SingleLensWorkspace {
       },
       handlePosition: () => scene.handleClientPosition(),
       viewCase: () => self.getCase(),
+      canUndo: () => self.history?.canUndo ?? false,
       valid: () => self.stale.hidden,
       mapDrawn: () => map.drawn,
       /** request the current map again and resolve with its round trip (post to drawn), ms */

@@ -127,3 +127,12 @@ export function pointInField(model: Record<string, unknown>, key: string, label:
   // lil-gui writes the model into the field after its onChange: put the caret back after that
   if (focused && a !== null && b !== null) queueMicrotask(() => input.setSelectionRange(a, b));
 }
+
+/** The lens-form fields a form shows for its material, front and thickness modes. */
+export function lensFormVisibility(m: { material: string; frontMode: string; thicknessMode: string }): [key: string, shown: boolean][] {
+  return [
+    ['index', m.material === 'custom'], ['abbe', m.material === 'custom'],
+    ['front', m.frontMode === 'true'], ['base', m.frontMode === 'nominal'], ['toolIndex', m.frontMode === 'nominal'],
+    ['ct', m.thicknessMode === 'centre'], ['minEdge', m.thicknessMode === 'rule'], ['minCt', m.thicknessMode === 'rule'],
+  ];
+}

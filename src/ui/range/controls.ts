@@ -7,7 +7,7 @@
 import GUI, { type Controller } from 'lil-gui';
 import { MATERIALS } from '../../optics/index.ts';
 import { InputError } from '../../case/input.ts';
-import { decimalPoint, errorSlot, pointInField, showFieldError } from '../numberInput.ts';
+import { decimalPoint, errorSlot, pointInField, lensFormVisibility, showFieldError } from '../numberInput.ts';
 import { FAMILY_LABELS, type FamilyForm, type FamilyKey } from './family.ts';
 
 /** Placeholder-like hints beside the range fields. */
@@ -145,14 +145,7 @@ export class RangeControls {
       const el = this.errorEls.get(k);
       if (el && !v) el.hidden = true;
     };
-    show('index', m.material === 'custom');
-    show('abbe', m.material === 'custom');
-    show('front', m.frontMode === 'true');
-    show('base', m.frontMode === 'nominal');
-    show('toolIndex', m.frontMode === 'nominal');
-    show('ct', m.thicknessMode === 'centre');
-    show('minEdge', m.thicknessMode === 'rule');
-    show('minCt', m.thicknessMode === 'rule');
+    for (const [k, v] of lensFormVisibility(m)) show(k as FamilyKey, v);
   }
 
   dispose(): void {

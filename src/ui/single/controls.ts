@@ -11,7 +11,7 @@ import { readNumber, type Quantity } from '../../case/input.ts';
 import type { ViewCase, ViewDisplay, ViewField } from '../../case/url.ts';
 import { MATERIALS } from '../../optics/index.ts';
 import { InputError } from '../../case/input.ts';
-import { decimalPoint, enableArrowSteps, errorSlot, formatStep, pointInField, showFieldError } from '../numberInput.ts';
+import { decimalPoint, enableArrowSteps, errorSlot, formatStep, pointInField, lensFormVisibility, showFieldError } from '../numberInput.ts';
 
 interface NumberField {
   key: ViewField;
@@ -216,14 +216,7 @@ export class Controls {
       const el = this.errorEls.get(k);
       if (el && !v) el.hidden = true;
     };
-    show('index', m.material === 'custom');
-    show('abbe', m.material === 'custom');
-    show('front', m.frontMode === 'true');
-    show('base', m.frontMode === 'nominal');
-    show('toolIndex', m.frontMode === 'nominal');
-    show('ct', m.thicknessMode === 'centre');
-    show('minEdge', m.thicknessMode === 'rule');
-    show('minCt', m.thicknessMode === 'rule');
+    for (const [k, v] of lensFormVisibility(m)) show(k as ViewField, v);
     show('x', m.pointMode === 'xy');
     show('y', m.pointMode === 'xy');
     show('dir', m.pointMode === 'polar');

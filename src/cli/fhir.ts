@@ -61,7 +61,7 @@ export function runImport(argv: readonly string[]): WithNotes {
   if (args.positional.length !== 1) throw new InputError('FILE.json', 'give exactly one FHIR resource file');
   const path = args.positional[0]!;
   const pdMm = readPds(args.values.get('pd'));
-  const bytes = readFileCapped(path, MAX_FHIR_BYTES);
+  const bytes = readFileCapped(path, MAX_FHIR_BYTES, oneLine(path), 'a FHIR resource file');
   let text: string;
   try {
     text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);

@@ -168,3 +168,14 @@ describe('decentra import and export', () => {
     expect(readVisionPrescription(res).right).toEqual({ sphere: -9.5, cyl: 0, axis: 0, prism: [], add: null });
   });
 });
+
+it('decentra import refuses a file over 1 MB by its size, in a FHIR resource\'s words', async () => {
+  const { run } = await import('../../src/cli/main.ts');
+  const { mkdtempSync, truncateSync, writeFileSync } = await import('node:fs');
+  const dir = mkdtempSync('/tmp/decentra-fhir-big-');
+  writeFileSync(`${dir}/big.json`, '');
+  truncateSync(`${dir}/big.json`, 2 * 1024 * 1024);
+  const r = run(['import', `${dir}/big.json`]);
+  expect(r.code).toBe(2);
+  expect(r.err).toMatch(/big\.json: is 2\.0 MB; a FHIR resource file is at most 1\.0 MB$/);
+});

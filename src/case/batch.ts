@@ -108,6 +108,11 @@ export function batchRows(plan: BatchPlan, powers = plan.powers, onPower?: (done
   return rows;
 }
 
+/** Quote one word for a POSIX shell, only where needed (for a command line shown to a person). */
+export function shellWord(s: string): string {
+  return /^[A-Za-z0-9_.:,=+\-/]+$/.test(s) ? s : `'${s.replace(/'/g, `'\\''`)}'`;
+}
+
 /** A CSV cell: numbers as they are (finite only), text quoted when needed. */
 export function csvCell(v: number | string | null): string {
   if (v === null) return '';

@@ -214,7 +214,7 @@ function checkValues(doc: CaseDocument): BinocularCase {
       if (val !== undefined) fields[k] = val;
     }
     const lens = readLensForm(fields, label);
-    const pdMm = inRange(label('pd'), d.pd, { min: 20, max: 45, unit: 'mm' });
+    const pdMm = inRange(label('pd'), d.pd, LIMITS.pd);
     const crMm = d.cr === undefined ? 27 : inRange(label('cr'), d.cr, LIMITS.cr);
     let ocXMm: number, ocYMm: number;
     const fromFrame = d.decentration !== undefined || d.fittingHeight !== undefined || d.ocHeight !== undefined;

@@ -4,7 +4,7 @@
  * Numbers are finite or shown as a dash, never NaN or Infinity. Signs: net horizontal > 0
  * base in; vertical imbalance right minus left > 0 the right eye base up (docs/conventions.md).
  */
-import { type Demand, type Verdict, ruleText } from '../optics/index.ts';
+import { type Demand, SLAB_OFF_RULE, type Verdict, ruleText } from '../optics/index.ts';
 import type { BinocularCase } from './caseFile.ts';
 import type { FitReport, SlabOffReport } from './fit.ts';
 
@@ -112,10 +112,10 @@ export function slabOffWords(s: SlabOffReport): string {
   if (!o) return 'Slab-off: not assessed (an eye has no value at the reading points).';
   const where = SLAB_AT[s.at];
   const foc = `focimeter imbalance ${fixed(o.focimeterImbalance)} Δ ${where}; the eyes feel ${fixed(o.eyeImbalance)} Δ there`;
-  if (o.advice === 'not indicated') return `Slab-off: not indicated (${foc}; considered from 1.50 Δ).`;
+  if (o.advice === 'not indicated') return `Slab-off: not indicated (${foc}; considered from ${fixed(SLAB_OFF_RULE.fromDelta)} Δ).`;
   const lens = o.eye === 'R' ? 'right' : 'left';
   return `Slab-off: order ${fixed(o.order)} Δ base up on the ${lens} lens, to be verified with a focimeter (${foc}; ` +
-    `${fixed(o.remaining)} Δ would remain at the eyes)` + (o.advice === 'beyond the usual range' ? '. This is beyond the usual range of about 6 Δ.' : '.');
+    `${fixed(o.remaining)} Δ would remain at the eyes)` + (o.advice === 'beyond the usual range' ? `. This is beyond the usual range of about ${SLAB_OFF_RULE.upToDelta} Δ.` : '.');
 }
 
 /** Words for the standard's verdict as a whole. */

@@ -86,6 +86,8 @@ export const LIMITS = {
   conic: { min: -50, max: 50 },
   point: { min: -50, max: 50, unit: 'mm' },
   cr: { min: 5, max: 60, unit: 'mm' },
+  /** monocular PD */
+  pd: { min: 20, max: 45, unit: 'mm' },
   /** pantoscopic tilt and wrap: one range everywhere (docs/conventions.md, "Tilted and wrapped lenses") */
   panto: { min: -20, max: 30, unit: 'degrees' },
   wrap: { min: -10, max: 35, unit: 'degrees' },

@@ -5,10 +5,11 @@
 import { CaseError, writeCase } from '../case/caseFile.ts';
 import { FhirError, MAX_FHIR_BYTES, importVisionPrescriptionText, visionPrescriptionFromCase } from '../case/fhir.ts';
 import { InputError, inRange, readNumber } from '../case/input.ts';
+import { LIMITS } from '../case/lensCase.ts';
 import { parseArgs } from './args.ts';
 import { oneLine, writeFileSafely } from './output.ts';
 import { loadCaseFile, readFileCapped } from './readFile.ts';
-import { readDay } from './report.ts';
+import { readDay, today } from './report.ts';
 
 export const IMPORT_HELP = `decentra import: a case file from an HL7 FHIR VisionPrescription.
 
@@ -48,7 +49,7 @@ function readPds(raw: string | undefined): { right: number; left: number } | und
   if (raw === undefined) return undefined;
   const parts = raw.split(',');
   if (parts.length !== 2) throw new InputError('--pd', `must be R,L in mm (e.g. 31.5,32), got '${oneLine(raw)}'`);
-  const r = { min: 20, max: 45, unit: 'mm' };
+  const r = LIMITS.pd;
   return {
     right: inRange('--pd', readNumber('--pd', parts[0], 'length'), r),
     left: inRange('--pd', readNumber('--pd', parts[1], 'length'), r),
@@ -89,7 +90,7 @@ export function runExport(argv: readonly string[]): WithNotes {
   if (args.positional.length !== 1) throw new InputError('CASE.json', 'give exactly one case file');
   if (!args.switches.has('fhir')) throw new InputError('--fhir', 'is required: the format to export (FHIR VisionPrescription is the only one)');
   const c = loadCaseFile(args.positional[0]!);
-  const day = args.values.has('date') ? readDay('--date', args.values.get('date')!) : new Date();
+  const day = args.values.has('date') ? readDay('--date', args.values.get('date')!) : today();
   const { resource, notes } = visionPrescriptionFromCase(c.doc, day.toISOString().slice(0, 10));
   const text = `${JSON.stringify(resource, null, 2)}\n`;
   const all = notes.map((n) => `decentra export: ${n}`);

@@ -38,7 +38,7 @@ export function readDay(flag: string, raw: string): Date {
 }
 
 /** Today's local calendar day, as readDay gives it. */
-function today(): Date {
+export function today(): Date {
   const now = new Date();
   return new Date(Date.UTC(now.getFullYear(), now.getMonth(), now.getDate()));
 }

@@ -1,11 +1,12 @@
 /** `decentra spec`: the range's printable spec sheet (docs/range.md). */
+import { shellWord } from '../case/batch.ts';
 import { InputError } from '../case/input.ts';
 import { breakdown, rangeRows, readLevels } from '../case/range.ts';
 import { specSheetHtml } from '../report/specSheet.ts';
 import { parseArgs } from './args.ts';
 import { RANGE_FLAG_NAMES, readRangeFlags } from './limits.ts';
 import { oneLine, writeFileSafely } from './output.ts';
-import { readDay } from './report.ts';
+import { readDay, today } from './report.ts';
 
 export const SPEC_HELP = `decentra spec: a printable spec sheet for a lens range (HTML, one or two A4/Letter pages).
 
@@ -30,10 +31,6 @@ const SPEC_FLAGS = {
   switches: ['help'],
 };
 
-/** Quote one word for a POSIX shell when needed (for the command printed on the sheet). */
-function shellWord(s: string): string {
-  return /^[A-Za-z0-9_.:,=+\-/]+$/.test(s) ? s : `'${s.replace(/'/g, `'\\''`)}'`;
-}
 
 export function runSpec(argv: readonly string[]): string {
   const args = parseArgs(argv, SPEC_FLAGS);
@@ -43,8 +40,7 @@ export function runSpec(argv: readonly string[]): string {
   const spec = readRangeFlags(args);
   const levels = readLevels('--levels', args.values.get('levels'));
   const rawDate = args.values.get('date');
-  const now = new Date();
-  const date = rawDate !== undefined ? readDay('--date', rawDate) : new Date(Date.UTC(now.getFullYear(), now.getMonth(), now.getDate()));
+  const date = rawDate !== undefined ? readDay('--date', rawDate) : today();
   const shown = argv.filter((_, i) => !['--out', '--date'].includes(argv[i]!) && !['--out', '--date'].includes(argv[i - 1] ?? ''))
     .filter((w) => !/^--(out|date)=/.test(w));
   const page = specSheetHtml(spec, rangeRows(spec), breakdown(spec, levels), {

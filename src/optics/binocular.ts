@@ -18,7 +18,7 @@ import { type FourAnswers, fourAnswersPlaced, isFailure } from './answers.ts';
 import type { Lens } from './lens.ts';
 import type { Eye } from './notation.ts';
 import { RayStatus, failureMessage } from './errors.ts';
-import { type Fixation, type FixationStatus, type Target, solveFixation } from './fixation.ts';
+import { type Fixation, type Target, fixationStatusOf, solveFixation } from './fixation.ts';
 import { type Placement, centrationPoint, placedLineOfSight } from './placement.ts';
 import { LineTrace } from './trace.ts';
 
@@ -120,8 +120,6 @@ function solveEye(setup: EyeSetup, eye: Eye, target: BinocularTarget): EyeResult
   };
 }
 
-const STATUS_NAMES: FixationStatus[] = ['ok', 'miss', 'tir', 'geometry', 'edge'];
-
 /** The line of sight through a reading-level point (given, not solved), as a Fixation. */
 function levelFixation(setup: EyeSetup, eye: Eye, level: LevelTarget): Fixation {
   const trace = new LineTrace();
@@ -132,7 +130,7 @@ function levelFixation(setup: EyeSetup, eye: Eye, level: LevelTarget): Fixation 
   const nasal = eye === 'R' ? 1 : -1;
   const cx = mark.lens.x + nasal * level.insetMm, cy = mark.lens.y - level.belowMm;
   const st = placedLineOfSight(setup.lens, setup.placement, cx, cy, trace);
-  const status = STATUS_NAMES[st] ?? 'geometry';
+  const status = fixationStatusOf(st);
   const message = st === RayStatus.ok ? 'given by the reading level'
     : `the line of sight through the reading point fails: ${failureMessage(st)}`;
   return { status, message, cx, cy, iterations: 0, trace };

@@ -30,6 +30,11 @@ export interface Fixation {
 
 const STATUS_NAMES: FixationStatus[] = ['ok', 'miss', 'tir', 'geometry', 'edge'];
 
+/** A trace status as a fixation status. */
+export function fixationStatusOf(st: RayStatus): FixationStatus {
+  return STATUS_NAMES[st] ?? 'geometry';
+}
+
 /**
  * Largest start point (distance from the optical centre on the back vertex plane, mm) the
  * search begins from: far beyond any lens (diameters are at most 100 mm), and small enough
@@ -154,7 +159,7 @@ export function solveFixation(lens: Lens, pl: Placement, target: Target, opts: F
 }
 
 function fail(res: Fixation, st: RayStatus, cx: number, cy: number, it: number): Fixation {
-  const name = STATUS_NAMES[st] ?? 'geometry';
+  const name = fixationStatusOf(st);
   const why: Record<string, string> = {
     miss: 'the line of sight towards this target misses a lens surface',
     tir: 'the line of sight towards this target is totally internally reflected',

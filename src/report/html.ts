@@ -50,6 +50,23 @@ export function trusted(constant: string): Markup {
 export const DASH = '—';
 
 /**
+ * The opening of a standalone printable page: doctype, a Content-Security-Policy that allows
+ * no script and no external file, the title and the inline style sheet; the body follows.
+ */
+export function pageHead(title: Part, css: string): Markup {
+  return html`<!DOCTYPE html>
+<html lang="en">
+<head>
+<meta charset="utf-8">
+<meta http-equiv="Content-Security-Policy" content="default-src 'none'; style-src 'unsafe-inline'; img-src data:">
+<meta name="viewport" content="width=device-width, initial-scale=1">
+<meta name="generator" content="Decentra">
+<title>${title}</title>
+<style>${trusted(css)}</style>
+</head>`;
+}
+
+/**
  * A number for people: fixed decimals, no "-0.00"; '—' when the value is missing (null or
  * undefined) and also when it is not finite (NaN and Infinity are never printed).
  */

@@ -16,7 +16,7 @@ import type { FrontSpec, ThicknessSpec } from '../case/lensCase.ts';
 import { readLensForm } from '../case/lensCase.ts';
 import { type Breakdown, type RangeRow, type RangeSpec, flagLabel } from '../case/range.ts';
 import { REPORT_CAUTIONS } from './summary.ts';
-import { type Markup, type Part, coord, fmt, fmtSigned, html, trusted } from './html.ts';
+import { type Markup, type Part, coord, fmt, fmtSigned, html, pageHead, trusted } from './html.ts';
 import { REPORT_CSS } from './style.ts';
 
 export interface SpecSheetOptions {
@@ -234,16 +234,7 @@ export function specSheetHtml(spec: RangeSpec, rows: readonly RangeRow[], b: Bre
     notMade.size ? html`<li>${String(notMade.size)} lenses cannot be made as specified (× in the tables)${maxDia.length ? html`; the largest diameter that can is given per lens in the full table, e.g. ${fmtSigned(maxDia[0]!.sphere)} / ${fmtSigned(maxDia[0]!.cyl)}: ${fmt(maxDia[0]!.maxDiameter, 1)} mm` : ''}.</li>` : null,
     within10 >= 0 ? html`<li>Prentice’s rule within 10 % of the exact prism (${b.direction.label}, cyl ${fmtSigned(b.cyl)}): ${breakdownSummary(b, within10, d)}.</li>` : null,
   ];
-  const doc = html`<!DOCTYPE html>
-<html lang="en">
-<head>
-<meta charset="utf-8">
-<meta http-equiv="Content-Security-Policy" content="default-src 'none'; style-src 'unsafe-inline'; img-src data:">
-<meta name="viewport" content="width=device-width, initial-scale=1">
-<meta name="generator" content="Decentra">
-<title>Spec sheet: ${title}</title>
-<style>${trusted(REPORT_CSS)}${trusted(SHEET_CSS)}</style>
-</head>
+  const doc = html`${pageHead(html`Spec sheet: ${title}`, REPORT_CSS + SHEET_CSS)}
 <body>
 <main class="sheet">
 <header><div class="head-row"><h1 data-k="title">${title}</h1><span class="date" data-k="date">${day}</span></div>

@@ -28,7 +28,7 @@ import {
   findMaterial, isFailure, prismWords, ruleText,
 } from '../optics/index.ts';
 import { crossSectionSvg, directionWords } from './crossSection.ts';
-import { DASH, type Markup, type Part, fmt, fmtSigned, html, trusted, withUnit } from './html.ts';
+import { DASH, type Markup, type Part, fmt, fmtSigned, html, pageHead, trusted, withUnit } from './html.ts';
 import { profilePlotSvg } from './profilePlot.ts';
 import { REPORT_CSS } from './style.ts';
 
@@ -293,16 +293,7 @@ ${eyePairRow('Pair: vertical imbalance', 'v')}
     ];
   });
 
-  const doc = html`<!DOCTYPE html>
-<html lang="en">
-<head>
-<meta charset="utf-8">
-<meta http-equiv="Content-Security-Policy" content="default-src 'none'; style-src 'unsafe-inline'; img-src data:">
-<meta name="viewport" content="width=device-width, initial-scale=1">
-<meta name="generator" content="Decentra">
-<title>Prism summary: ${title}</title>
-<style>${trusted(REPORT_CSS)}</style>
-</head>
+  const doc = html`${pageHead(html`Prism summary: ${title}`, REPORT_CSS)}
 <body>
 <main class="sheet">
 ${header}

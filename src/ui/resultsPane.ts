@@ -1,5 +1,5 @@
 /**
- * What the single-lens and both-eyes result panels share: an element helper, a status line
+ * What the single-lens and both-eyes result panels share: element helpers (HTML and SVG), a status line
  * ("Up to date", or stale with the reason), and a body the panel fills. User text only ever
  * goes in through textContent.
  */
@@ -7,6 +7,16 @@
 export function el<K extends keyof HTMLElementTagNameMap>(tag: K, cls?: string, text?: string): HTMLElementTagNameMap[K] {
   const e = document.createElement(tag);
   if (cls) e.className = cls;
+  if (text !== undefined) e.textContent = text;
+  return e;
+}
+
+/** An SVG element with its attributes (and text): the one SVG helper of the app's drawings. */
+export function svg<K extends keyof SVGElementTagNameMap>(
+  tag: K, attrs: Record<string, string | number> = {}, text?: string,
+): SVGElementTagNameMap[K] {
+  const e = document.createElementNS('http://www.w3.org/2000/svg', tag);
+  for (const [k, v] of Object.entries(attrs)) e.setAttribute(k, String(v));
   if (text !== undefined) e.textContent = text;
   return e;
 }

@@ -21,18 +21,11 @@ import { DASH, num, withUnit } from '../format.ts';
 import type { BinocularComputed } from './compute.ts';
 import { EYE_NAMES, type Side } from './form.ts';
 import { nasalSign, offsetWords } from './words.ts';
-import { el } from '../resultsPane.ts';
+import { el, svg } from '../resultsPane.ts';
 
-const NS = 'http://www.w3.org/2000/svg';
 const OUTLINE_DIRECTIONS = 72;
 /** blank allowance added by minimumBlankMm, mm (its default; common practice) */
 const BLANK_ALLOWANCE_MM = 2;
-
-function svg<K extends keyof SVGElementTagNameMap>(tag: K, attrs: Record<string, string | number>): SVGElementTagNameMap[K] {
-  const e = document.createElementNS(NS, tag);
-  for (const [k, v] of Object.entries(attrs)) e.setAttribute(k, String(v));
-  return e;
-}
 
 type InputKey = 'tol' | 'dir' | 'h' | 'v' | 'ed';
 

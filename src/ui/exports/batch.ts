@@ -8,7 +8,7 @@
  * file only reads the export panel's text fields into a plan (with the CLI's field names in
  * messages) and shows the equivalent command. Pure: no DOM, runs in a worker and in Node.
  */
-import { type BatchPlan, type Row, batchRows, formatBatch, limitsPowerRow, rangeValues, sweepPowerRows } from '../../case/batch.ts';
+import { type BatchPlan, type Row, batchRows, formatBatch, limitsPowerRow, rangeValues, shellWord, sweepPowerRows } from '../../case/batch.ts';
 import { flagOf } from '../../case/flags.ts';
 import { InputError, inRange, readNumber } from '../../case/input.ts';
 import { LIMITS, type RawFields, readEye, readLensForm } from '../../case/lensCase.ts';
@@ -83,10 +83,6 @@ export function planBatch(req: BatchRequest): BatchPlan {
   return { kind: req.kind, fields: f, powers, decs, dirDeg, cr, eye, maxPrism, format: req.format };
 }
 
-/** Quote one word for a POSIX shell (only when needed). */
-function shellWord(s: string): string {
-  return /^[A-Za-z0-9_.:,=+\-/]+$/.test(s) ? s : `'${s.replace(/'/g, `'\\''`)}'`;
-}
 
 /**
  * The command line that prints the same table (shown in the export panel, so that a table

@@ -9,9 +9,8 @@ import { contours } from 'd3-contour';
 import type { Breakdown } from '../../case/range.ts';
 import { cssColourAt, niceStep } from '../../worker/colourScale.ts';
 import { num } from '../format.ts';
-import { el } from '../resultsPane.ts';
+import { el, svg } from '../resultsPane.ts';
 
-const NS = 'http://www.w3.org/2000/svg';
 const W = 720, H = 290;
 const M = { left: 52, right: 96, top: 14, bottom: 40 };
 /** stroke patterns of the contour levels, in order */
@@ -20,13 +19,6 @@ const DASHES = ['', '6 3', '2 3', '10 3 2 3'];
 /** A level for people: 5 %, 12.5 %. */
 export function levelText(l: number): string {
   return `${Number.isInteger(l) ? String(l) : num(l, 1)} %`;
-}
-
-function svg<K extends keyof SVGElementTagNameMap>(tag: K, attrs: Record<string, string | number> = {}, text?: string): SVGElementTagNameMap[K] {
-  const e = document.createElementNS(NS, tag);
-  for (const [k, v] of Object.entries(attrs)) e.setAttribute(k, String(v));
-  if (text !== undefined) e.textContent = text;
-  return e;
 }
 
 export class BreakdownChart {

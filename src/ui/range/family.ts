@@ -5,6 +5,7 @@
  * both use it, so a message names the same field in both.
  */
 import type { FieldKey } from '../../case/lensCase.ts';
+import { shellWord } from '../../case/batch.ts';
 import { flagOf } from '../../case/flags.ts';
 import type { RangeInput, RangeKey, RangeLabeller, RangeRow } from '../../case/range.ts';
 import { type ViewCase, toRawFields } from '../../case/url.ts';
@@ -100,10 +101,6 @@ export function rangeInput(f: FamilyForm): RangeInput {
   return { power: f.power, cyl: f.cyl, axis: f.axis, dir: f.dir, maxPrism: f.maxPrism, decimals: f.decimals, fields };
 }
 
-/** Quote one word for a POSIX shell (only when needed). */
-function shellWord(s: string): string {
-  return /^[A-Za-z0-9_.:,=+\-/]+$/.test(s) ? s : `'${s.replace(/'/g, `'\\''`)}'`;
-}
 
 /**
  * The command line's words for the family: `decentra limits` (or `spec`) with the range

@@ -8,8 +8,8 @@ import { Hit, type Lens } from '../../optics/index.ts';
 import { GLOBE_RADIUS_MM } from '../../scene/eyeModel.ts';
 import type { RayPaths } from '../../scene/rayPaths.ts';
 import { num } from '../format.ts';
+import { svg } from '../resultsPane.ts';
 
-const NS = 'http://www.w3.org/2000/svg';
 const SAMPLES = 121;
 const OBJECT_SHOWN_MM = 38;
 const _hit = new Hit();
@@ -21,13 +21,6 @@ export interface SectionInput {
   decentrationMm: number;
   paths: RayPaths;
   mag: number;
-}
-
-function svg<K extends keyof SVGElementTagNameMap>(tag: K, attrs: Record<string, string | number>, text?: string): SVGElementTagNameMap[K] {
-  const e = document.createElementNS(NS, tag);
-  for (const [k, v] of Object.entries(attrs)) e.setAttribute(k, String(v));
-  if (text !== undefined) e.textContent = text;
-  return e;
 }
 
 export class CrossSection {

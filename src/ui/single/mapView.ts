@@ -8,8 +8,8 @@ import type { Eye, LensSpec } from '../../optics/index.ts';
 import { cssColourAt } from '../../worker/colourScale.ts';
 import type { MapQuantity, MapRequest, MapResponse, MapResult } from '../../worker/mapProtocol.ts';
 import { num } from '../format.ts';
+import { svg } from '../resultsPane.ts';
 
-const NS = 'http://www.w3.org/2000/svg';
 export const MAP_SIZE = 201;
 
 export interface MapCase {
@@ -17,12 +17,6 @@ export interface MapCase {
   crMm: number;
   eye: Eye;
   quantity: MapQuantity;
-}
-
-function svg<K extends keyof SVGElementTagNameMap>(tag: K, attrs: Record<string, string | number>): SVGElementTagNameMap[K] {
-  const e = document.createElementNS(NS, tag);
-  for (const [k, v] of Object.entries(attrs)) e.setAttribute(k, String(v));
-  return e;
 }
 
 export class MapView {
@@ -140,7 +134,7 @@ export class MapView {
     const g = svg('g', { 'clip-path': 'url(#map-valid)', class: 'map-contours' });
     for (const c of r.contours) {
       const p = svg('path', { d: c.d, class: c.level === 0 ? 'contour zero' : 'contour' });
-      const t = document.createElementNS(NS, 'title');
+      const t = svg('title');
       t.textContent = `${num(c.level, 2)} ${r.quantity === 'exact' ? 'Δ' : '%'}`;
       p.append(t);
       g.append(p);

@@ -16,7 +16,7 @@ import type { FrontSpec, ThicknessSpec } from '../case/lensCase.ts';
 import { readLensForm } from '../case/lensCase.ts';
 import { type Breakdown, type RangeRow, type RangeSpec, flagLabel } from '../case/range.ts';
 import { REPORT_CAUTIONS } from './summary.ts';
-import { type Markup, type Part, coord, fmt, fmtSigned, html, pageHead, trusted } from './html.ts';
+import { type Markup, type Part, coord, fmt, fmtSigned, html, pageHead } from './html.ts';
 import { REPORT_CSS } from './style.ts';
 
 export interface SpecSheetOptions {

@@ -95,6 +95,10 @@ export function fourAnswersPlaced(lens: Lens, pl: Placement, cxMm: number, cyMm:
 }
 
 export function prenticeError(prenticeMag: number, exactMag: number): PrenticeError {
-  const prism = prenticeMag - exactMag;
-  return { prism, percent: exactMag === 0 ? null : (100 * prism) / exactMag };
+  return { prism: prenticeMag - exactMag, percent: exactMag === 0 ? null : prenticeErrorPercent(prenticeMag, exactMag) };
+}
+
+/** 100 (|Prentice| - |exact|) / |exact|, % (exactMag not 0); no allocation, for scans. */
+export function prenticeErrorPercent(prenticeMag: number, exactMag: number): number {
+  return (100 * (prenticeMag - exactMag)) / exactMag;
 }

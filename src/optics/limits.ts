@@ -10,7 +10,7 @@
  * The same scan finds where Prentice's error leaves a level (prenticeBreakdownLimits). Also: the
  * largest diameter at which a lens form can be made (largestDiameterMm). docs/range.md.
  */
-import { prenticeError } from './answers.ts';
+import { prenticeError, prenticeErrorPercent } from './answers.ts';
 import { OpticsError, RayStatus } from './errors.ts';
 import { decentrationFromMatrix, eyeMatrix, prismFromMatrix } from './firstOrder.ts';
 import { Lens, type LensSpec, type ThicknessRule, solveCentreThickness } from './lens.ts';
@@ -63,7 +63,7 @@ export const ScanQuantity = {
   eye: 0,
   /** the exact focimeter reading at the back-surface point, Δ */
   focimeter: 1,
-  /** |Prentice error| in percent of the exact prism at the eye (answers.ts, prenticeError) */
+  /** |Prentice error| in percent of the exact prism at the eye (answers.ts, prenticeErrorPercent) */
   prenticeErrorPercent: 2,
 } as const;
 export type ScanQuantity = (typeof ScanQuantity)[keyof typeof ScanQuantity];
@@ -100,7 +100,7 @@ function quantityAt(d: number): number {
   if (_s.q !== ScanQuantity.prenticeErrorPercent) return _t.prism;
   const pr = _s.perMm * d;
   if (_t.prism === 0) return pr === 0 ? 0 : Infinity;
-  return Math.abs(prenticeError(pr, _t.prism).percent!);
+  return Math.abs(prenticeErrorPercent(pr, _t.prism));
 }
 
 /** Closed-form limit of a linear rule with `perMm` Δ per mm: tolerance / perMm, null when perMm is 0. */
@@ -177,7 +177,7 @@ export function directionLimits(lens: Lens, crMm: number, directionDeg: number, 
 
 /**
  * Where Prentice's rule breaks down along a direction: for each level (percent), the largest
- * decentration out to which |Prentice error| (answers.ts, prenticeError) stays within it,
+ * decentration out to which |Prentice error| (answers.ts, prenticeErrorPercent) stays within it,
  * scanning outwards from the centre (a level already exceeded next to the centre gives a
  * limit near 0).
  */

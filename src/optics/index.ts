@@ -20,3 +20,4 @@ export * from './anisometropia.ts';
 export * from './chromatic.ts';
 export * from './marks.ts';
 export * from './guidance.ts';
+export * from './newton2.ts';

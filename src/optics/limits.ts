@@ -11,6 +11,7 @@
  * largest diameter at which a lens form can be made (largestDiameterMm). docs/range.md.
  */
 import { prenticeError, prenticeErrorPercent } from './answers.ts';
+import { newton2 } from './newton2.ts';
 import { OpticsError, RayStatus } from './errors.ts';
 import { decentrationFromMatrix, eyeMatrix, prismFromMatrix } from './firstOrder.ts';
 import { Lens, type LensSpec, type ThicknessRule, solveCentreThickness } from './lens.ts';
@@ -328,27 +329,16 @@ export function decentrationForPrism(lens: Lens, crMm: number, px: number, py: n
     prenticeMessage = 'the lens has no power in one meridian (det F = 0): decentration cannot give prism along that meridian';
   }
   // Newton from Prentice's answer (or from the centre when there is none)
-  let cx = prentice?.x ?? 0, cy = prentice?.y ?? 0;
-  const res = (x: number, y: number): boolean => {
+  const r = newton2((x, y, out) => {
     _t.sx = 0; _t.sy = 0; _t.sz = -crMm; _t.bx = x; _t.by = y;
-    return lineOfSight(lens, _t) === RayStatus.ok;
-  };
-  let exact: { x: number; y: number } | null = null;
-  let exactMessage = 'the exact decentration could not be found';
-  const h = 1e-5;
-  for (let it = 0; it < 60; it++) {
-    if (!res(cx, cy)) { exactMessage = 'the exact trace fails on the way to this prism (lens too small or too steep)'; break; }
-    const fx = _t.px - px, fy = _t.py - py;
-    if (Math.hypot(fx, fy) < 1e-11) { exact = { x: cx, y: cy }; exactMessage = 'ok'; break; }
-    if (!res(cx + h, cy)) break;
-    const j11 = (_t.px - px - fx) / h, j21 = (_t.py - py - fy) / h;
-    if (!res(cx, cy + h)) break;
-    const j12 = (_t.px - px - fx) / h, j22 = (_t.py - py - fy) / h;
-    const d = j11 * j22 - j12 * j21;
-    if (Math.abs(d) < 1e-300) { exactMessage = prenticeMessage; break; }
-    cx -= (j22 * fx - j12 * fy) / d;
-    cy -= (-j21 * fx + j11 * fy) / d;
-  }
+    if (lineOfSight(lens, _t) !== RayStatus.ok) return false;
+    out.x = _t.px; out.y = _t.py;
+    return true;
+  }, px, py, prentice?.x ?? 0, prentice?.y ?? 0);
+  const exact = r.status === 'ok' ? { x: r.x, y: r.y } : null;
+  const exactMessage = r.status === 'ok' ? 'ok'
+    : r.status === 'trace' ? 'the exact trace fails on the way to this prism (lens too small or too steep)'
+      : r.status === 'singular' ? prenticeMessage : 'the exact decentration could not be found';
   return { exact, exactMessage, prentice, prenticeMessage };
 }
 

@@ -15,6 +15,7 @@ import { type FourAnswers, fourAnswersPlaced } from './answers.ts';
 import { type EyeSetup, type SignedPair, pairValues } from './binocular.ts';
 import { RayStatus } from './errors.ts';
 import { decentrationFromMatrix, focimeterMatrix } from './firstOrder.ts';
+import { newton2 } from './newton2.ts';
 import type { Lens } from './lens.ts';
 import { type Eye, type PrismDescription, type PrismEntry, describePrism, prescribedComponents } from './notation.ts';
 import { type Placement, centrationPoint, toLensPrism } from './placement.ts';
@@ -108,30 +109,9 @@ export function focimeterPointForPrism(lens: Lens, pl: Placement, px: number, py
     c.x = Math.abs(m[0]) > 1e-9 ? (-10 * lp.x) / m[0] : 0;
     c.y = Math.abs(m[3]) > 1e-9 ? (-10 * lp.y) / m[3] : 0;
   }
-  let cx = c.x, cy = c.y;
-  const f = { x: 0, y: 0 };
-  const h = 1e-5;
-  for (let it = 0; it < 40; it++) {
-    if (!focimeterAt(lens, pl, cx, cy, f)) return null;
-    const fx = f.x - px, fy = f.y - py;
-    if (Math.hypot(fx, fy) < 1e-11) break;
-    if (!focimeterAt(lens, pl, cx + h, cy, f)) return null;
-    const j11 = (f.x - px - fx) / h, j21 = (f.y - py - fy) / h;
-    if (!focimeterAt(lens, pl, cx, cy + h, f)) return null;
-    const j12 = (f.x - px - fx) / h, j22 = (f.y - py - fy) / h;
-    const d = j11 * j22 - j12 * j21;
-    if (Math.abs(d) > 1e-12) {
-      cx -= (j22 * fx - j12 * fy) / d;
-      cy -= (-j21 * fx + j11 * fy) / d;
-    } else {
-      // no power in one meridian: correct each meridian that has power
-      const hasX = Math.abs(j11) > 1e-9, hasY = Math.abs(j22) > 1e-9;
-      if (hasX) cx -= fx / j11;
-      if (hasY) cy -= fy / j22;
-      if (!hasX && !hasY) break;
-    }
-  }
-  return { x: cx, y: cy };
+  const r = newton2((x, y, out) => focimeterAt(lens, pl, x, y, out), px, py, c.x, c.y, { maxIterations: 40, byMeridian: true });
+  if (r.status === 'trace') return null;
+  return { x: r.x, y: r.y };
 }
 
 /**

@@ -7,13 +7,9 @@
 import { type Demand, SLAB_OFF_RULE, type Verdict, ruleText } from '../optics/index.ts';
 import type { BinocularCase } from './caseFile.ts';
 import type { FitReport, SlabOffReport } from './fit.ts';
+import { DASH, fixed } from './numberText.ts';
 
-export const DASH = '—';
-
-/** A finite number to `decimals` places, or a dash. */
-export function fixed(v: number | null | undefined, decimals = 2): string {
-  return typeof v === 'number' && Number.isFinite(v) ? (Math.abs(v) < 0.5 * 10 ** -decimals ? 0 : v).toFixed(decimals) : DASH;
-}
+export { DASH, fixed };
 
 /** The three answers: a heading and the question each answers. */
 export const THREE_ANSWERS = {

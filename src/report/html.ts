@@ -11,6 +11,10 @@
  */
 
 /** Markup that is already safe (built by `html`). */
+import { DASH, fixed as fmt } from '../case/numberText.ts';
+
+export { DASH };
+
 export class Markup {
   constructor(readonly text: string) {}
   toString(): string {
@@ -47,7 +51,6 @@ export function trusted(constant: string): Markup {
   return new Markup(constant);
 }
 
-export const DASH = '—';
 
 /**
  * The opening of a standalone printable page: doctype, a Content-Security-Policy that allows
@@ -66,15 +69,8 @@ export function pageHead(title: Part, css: string): Markup {
 </head>`;
 }
 
-/**
- * A number for people: fixed decimals, no "-0.00"; '—' when the value is missing (null or
- * undefined) and also when it is not finite (NaN and Infinity are never printed).
- */
-export function fmt(v: number | null | undefined, decimals = 2): string {
-  if (v === null || v === undefined || !Number.isFinite(v)) return DASH;
-  const s = v.toFixed(decimals);
-  return /^-0\.?0*$/.test(s) ? s.slice(1) : s;
-}
+/** A number for people (src/case/numberText.ts): fixed decimals, no "-0.00", '—' when missing or not finite. */
+export { fmt };
 
 /** Signed, as the trade writes powers: +1.00, -9.50, 0.00 (with a real minus sign). */
 export function fmtSigned(v: number | null | undefined, decimals = 2): string {

@@ -4,14 +4,9 @@
  */
 import type { SpheroCyl } from '../optics/index.ts';
 
-export const DASH = '—';
+import { DASH, fixed as num } from '../case/numberText.ts';
 
-/** Fixed decimals; '—' when not finite; no "-0.00". */
-export function num(v: number, decimals = 2): string {
-  if (!Number.isFinite(v)) return DASH;
-  const s = v.toFixed(decimals);
-  return /^-0\.?0*$/.test(s) ? s.slice(1) : s;
-}
+export { DASH, num };
 
 /** Signed, as the trade writes powers: +8.00, -1.25, 0.00. */
 export function signed(v: number, decimals = 2): string {

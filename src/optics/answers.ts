@@ -11,6 +11,7 @@ import { eyePrismOffAxis, focimeterMatrix, prismFromMatrix } from './firstOrder.
 import type { Lens } from './lens.ts';
 import { type Eye, type PrismDescription, describePrism } from './notation.ts';
 import { Placement, placedLineOfSight, toWearerPrism } from './placement.ts';
+import { type PowerAnswer, pencilSetup, powerOfLine } from './power.ts';
 import { LineTrace, setPrismComponents, traceFocimeter } from './trace.ts';
 
 export interface TraceFailure {
@@ -35,6 +36,12 @@ export interface FourAnswers {
   focimeter: Answer;
   focimeterFirstOrder: PrismDescription;
   error: PrenticeError | null;
+  /**
+   * The power the eye gets along the exact line of sight (power.ts): the pencil's vergence at
+   * the vertex sphere and its errors against the prescription (and the target's demand).
+   * A failure where the exact trace or the pencil fails.
+   */
+  power: PowerAnswer | TraceFailure;
   /** the traces themselves (lens frame), for drawing */
   exactTrace: LineTrace;
   focimeterTrace: LineTrace;
@@ -66,7 +73,11 @@ export function fourAnswers(lens: Lens, crDistanceMm: number, cxMm: number, cyMm
  * of rotation's position in that frame, docs/method.md) are turned into it by toWearerPrism
  * (docs/conventions.md, "Tilted and wrapped lenses"). For an untilted lens the two frames agree.
  */
-export function fourAnswersPlaced(lens: Lens, pl: Placement, cxMm: number, cyMm: number, eye: Eye): FourAnswers {
+export function fourAnswersPlaced(
+  lens: Lens, pl: Placement, cxMm: number, cyMm: number, eye: Eye,
+  /** a near target in the eye frame (mm) for the power's demand; null or absent: distant */
+  nearEye: { x: number; y: number; z: number } | null = null,
+): FourAnswers {
   const v = { x: 0, y: 0 };
   const described = (): PrismDescription => {
     toWearerPrism(pl, v.x, v.y, v);
@@ -87,8 +98,14 @@ export function fourAnswersPlaced(lens: Lens, pl: Placement, cxMm: number, cyMm:
   if (s2 === RayStatus.ok && pl.tilted) setPrismComponents(focimeterTrace, pl.r);
   const focimeter: Answer = s2 === RayStatus.ok ? describePrism(focimeterTrace.px, focimeterTrace.py, eye) : failureOf(s2);
 
+  let power: PowerAnswer | TraceFailure = failureOf(s1 === RayStatus.ok ? RayStatus.geometry : s1);
+  if (s1 === RayStatus.ok) {
+    const cylSign = lens.spec.cylD > 0 ? 'plus' : 'minus';
+    const p = powerOfLine(lens, exactTrace, pencilSetup(lens, pl, nearEye), cylSign);
+    power = typeof p === 'number' ? failureOf(p) : p;
+  }
   return {
-    eye, prentice, paraxial, exact, focimeter, focimeterFirstOrder,
+    eye, prentice, paraxial, exact, focimeter, focimeterFirstOrder, power,
     error: isFailure(exact) ? null : prenticeError(prentice.magnitude, exact.magnitude),
     exactTrace, focimeterTrace,
   };

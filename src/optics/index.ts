@@ -21,3 +21,6 @@ export * from './chromatic.ts';
 export * from './marks.ts';
 export * from './guidance.ts';
 export * from './newton2.ts';
+export * from './power.ts';
+export * from './powerMap.ts';
+export * from './pointFocal.ts';

@@ -92,7 +92,7 @@ function angleOfEigen(a: number, b: number, d: number, lambda: number): number {
 export function normaliseAxis(deg: number): number {
   let a = deg % 180;
   if (a < 0) a += 180;
-  if (a >= 180 - 1e-12) a = 0;
+  if (a >= 180 - 1e-12 || a === 0) a = 0; // also turns -0 into 0
   return a;
 }
 

@@ -86,7 +86,7 @@ export function targetForEye(target: Target, eye: Eye, pdMm: number): Target {
 
 function solveEye(setup: EyeSetup, eye: Eye, target: BinocularTarget): EyeResult {
   let fix: Fixation;
-  let d: { x: number; y: number; z: number } | null = null;
+  let d: Target | null = null;
   if (target.kind === 'level') {
     fix = levelFixation(setup, eye, target);
   } else {
@@ -100,7 +100,9 @@ function solveEye(setup: EyeSetup, eye: Eye, target: BinocularTarget): EyeResult
   let rotation = { horizontal: 0, vertical: 0 };
   let rotationDeg = { horizontal: 0, vertical: 0 };
   if (fix.status === 'ok') {
-    answers = fourAnswersPlaced(setup.lens, setup.placement, fix.cx, fix.cy, eye);
+    // the power's demand: the target point itself; a distant target or a reading level (which
+    // has no distance) is judged for a distant object (docs/method.md, "Power at the visual point")
+    answers = fourAnswersPlaced(setup.lens, setup.placement, fix.cx, fix.cy, eye, d && d.kind === 'point' ? d : null);
     const pl = setup.placement;
     const b = pl.toEyePoint(tr.bx, tr.by, tr.bz);
     fromPupil = { x: b.x, y: b.y };

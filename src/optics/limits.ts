@@ -16,6 +16,7 @@ import { OpticsError, RayStatus } from './errors.ts';
 import { decentrationFromMatrix, eyeMatrix, prismFromMatrix } from './firstOrder.ts';
 import { Lens, type LensSpec, type ThicknessRule, solveCentreThickness } from './lens.ts';
 import type { Mat2 } from './powerMatrix.ts';
+import { PencilPower, PencilSetup, pencilPower } from './power.ts';
 import { LineTrace, focimeter, lineOfSight } from './trace.ts';
 
 export interface LimitResult {
@@ -66,6 +67,10 @@ export const ScanQuantity = {
   focimeter: 1,
   /** |Prentice error| in percent of the exact prism at the eye (answers.ts, prenticeErrorPercent) */
   prenticeErrorPercent: 2,
+  /** |mean error| of the pencil along the line of sight (power.ts), D */
+  meanError: 3,
+  /** astigmatic error of the pencil along the line of sight (power.ts), D */
+  astigmatism: 4,
 } as const;
 export type ScanQuantity = (typeof ScanQuantity)[keyof typeof ScanQuantity];
 
@@ -88,6 +93,8 @@ export const LIMIT_SEARCH_MM = 50;
 
 // the scan's state: module scratch (the per-ray path allocates nothing)
 const _s = { lens: null as Lens | null, crMm: 0, ux: 0, uy: 0, q: 0 as ScanQuantity, perMm: 0, status: 0 as RayStatus };
+const _setup = new PencilSetup();
+const _pencil = new PencilPower();
 
 /** The scanned quantity at decentration d along the scan's direction, or NaN where the trace fails (status in _s). */
 function quantityAt(d: number): number {
@@ -98,6 +105,12 @@ function quantityAt(d: number): number {
   else { _t.sx = 0; _t.sy = 0; _t.sz = -_s.crMm; st = lineOfSight(lens, _t); }
   _s.status = st;
   if (st !== RayStatus.ok) return NaN;
+  if (_s.q === ScanQuantity.meanError || _s.q === ScanQuantity.astigmatism) {
+    st = pencilPower(lens, _t, _setup, _pencil);
+    _s.status = st;
+    if (st !== RayStatus.ok) return NaN;
+    return _s.q === ScanQuantity.meanError ? Math.abs(_pencil.meanError) : _pencil.astigmaticError;
+  }
   if (_s.q !== ScanQuantity.prenticeErrorPercent) return _t.prism;
   const pr = _s.perMm * d;
   if (_t.prism === 0) return pr === 0 ? 0 : Infinity;
@@ -121,6 +134,13 @@ function perMmAlong(m: Mat2, ux: number, uy: number): number {
  * answer for one tolerance is the same whichever others are asked with it.
  */
 function scan(lens: Lens, crMm: number, ux: number, uy: number, q: ScanQuantity, perMm: number, tolerances: readonly number[]): ScanLimit[] {
+  if (q === ScanQuantity.meanError || q === ScanQuantity.astigmatism) {
+    // the untilted lens before the eye, CR on the axis: the vertex sphere's radius is crMm
+    const m = lens.vertexMatrix;
+    _setup.radiusMm = crMm; _setup.near = false;
+    _setup.upX = 0; _setup.upY = 1; _setup.upZ = 0;
+    _setup.rxXX = m[0]; _setup.rxXY = 0.5 * (m[1] + m[2]); _setup.rxYY = m[3];
+  }
   _s.lens = lens; _s.crMm = crMm; _s.ux = ux; _s.uy = uy; _s.q = q; _s.perMm = perMm;
   const n = tolerances.length;
   const order = Array.from({ length: n }, (_, i) => i).sort((a, b) => tolerances[a]! - tolerances[b]!);
@@ -207,6 +227,58 @@ export function prenticeErrorAlong(
   const e = prenticeError(out.prentice, out.exact);
   out.prism = e.prism; out.percent = e.percent;
   return true;
+}
+
+/** Bounds on a decentration: the prism at the eye (Δ) and the pencil's errors there (D); any may be absent. */
+export interface DecentrationBounds {
+  maxPrism?: number;
+  maxMeanError?: number;
+  maxAstigmatism?: number;
+}
+
+export type BoundName = 'prism' | 'mean-error' | 'astigmatism';
+
+/** The largest decentration within every bound given, and which bound ended it. */
+export interface BoundedLimit {
+  /** mm; null when no bound is reached before the scan ends (see `end`) */
+  mm: number | null;
+  /** the bound reached first; null when none is */
+  endedBy: BoundName | null;
+  /** what ended the scan when no bound did: the edge, the geometry or the search's reach */
+  end: LimitEnd;
+  /** how far the scans went, mm */
+  searchedToMm: number;
+  /** each bound's own limit, in the order prism, mean error, astigmatism (only those given) */
+  each: { bound: BoundName; tolerance: number; limit: ScanLimit }[];
+}
+
+/**
+ * The largest decentration along a direction within several bounds at once: the exact prism
+ * at the eye, and the pencil's mean and astigmatic errors (power.ts) along the same lines of
+ * sight. Each bound is scanned as in directionLimits; the smallest limit wins and is named.
+ */
+export function boundedLimit(lens: Lens, crMm: number, directionDeg: number, bounds: DecentrationBounds): BoundedLimit {
+  const a = (directionDeg * Math.PI) / 180;
+  const ux = Math.cos(a), uy = Math.sin(a);
+  const asked: [BoundName, ScanQuantity, number | undefined][] = [
+    ['prism', ScanQuantity.eye, bounds.maxPrism],
+    ['mean-error', ScanQuantity.meanError, bounds.maxMeanError],
+    ['astigmatism', ScanQuantity.astigmatism, bounds.maxAstigmatism],
+  ];
+  const each: BoundedLimit['each'] = [];
+  for (const [bound, q, tol] of asked) {
+    if (tol === undefined) continue;
+    if (!(tol >= 0) || !Number.isFinite(tol)) throw new OpticsError(`the ${bound} bound ${tol} must be a finite number of at least 0`, bound);
+    each.push({ bound, tolerance: tol, limit: scan(lens, crMm, ux, uy, q, 0, [tol])[0]! });
+  }
+  if (each.length === 0) throw new OpticsError('give at least one bound: prism, mean error or astigmatism', 'bounds');
+  let best: BoundedLimit['each'][number] | null = null;
+  for (const e of each) if (e.limit.end === 'prism' && (!best || e.limit.mm! < best.limit.mm!)) best = e;
+  // without a reached bound, the scan that stopped first says why
+  let first = each[0]!;
+  for (const e of each) if (e.limit.searchedToMm < first.limit.searchedToMm) first = e;
+  if (best) return { mm: best.limit.mm, endedBy: best.bound, end: 'prism', searchedToMm: best.limit.searchedToMm, each };
+  return { mm: null, endedBy: null, end: first.limit.end, searchedToMm: first.limit.searchedToMm, each };
 }
 
 export function decentrationLimit(lens: Lens, crMm: number, directionDeg: number, maxPrism: number): LimitResult {

@@ -62,7 +62,7 @@ table.tol td.what { white-space: normal; font-size: 6.2pt; color: #44525f; }
 .k-paraxial { border-color: #1b8596; border-top-style: dotted; }
 .k-focimeter { border-color: #3f8a22; border-top-style: dashed; }
 .figs { margin-top: 1.4mm; }
-.figrow { display: grid; grid-template-columns: 82fr 18fr; column-gap: 2mm; align-items: center; }
+.figrow { display: grid; grid-template-columns: 71fr 29fr; column-gap: 2mm; align-items: center; }
 .figrow .cap { margin: 0; font-size: 6.4pt; }
 .figs .grid { display: grid; grid-template-columns: 150fr 212fr 150fr 212fr; column-gap: 2.5mm; }
 svg.fig { width: 100%; height: auto; display: block; font-family: inherit; }

@@ -18,6 +18,7 @@
  * (docs/conventions.md): x towards the wearer's left, y up; net horizontal > 0 base in;
  * vertical imbalance right minus left > 0 right eye base up.
  */
+import { POWER_AT_EYES, powerBrief } from '../case/powerWords.ts';
 import type { BinocularCase, EyeCase, EyeDocument } from '../case/caseFile.ts';
 import type { FitReport } from '../case/fit.ts';
 import {
@@ -47,7 +48,7 @@ export const REPORT_CAUTIONS = [
 /** What the guidance is, said wherever it appears. */
 
 /** A long note is shortened so that the summary stays on one page. */
-export const NOTE_MAX_CHARS = 200;
+export const NOTE_MAX_CHARS = 120;
 
 type Side = 'right' | 'left';
 const SIDES: readonly Side[] = ['right', 'left'];
@@ -271,6 +272,11 @@ ${eyeRow('left')}
 ${eyePairRow('Pair: net horizontal', 'h')}
 ${eyePairRow('Pair: vertical imbalance', 'v')}
 </tbody></table>`;
+  // the power beside the prism: one plain line for the pair (docs/method.md, "Power at the visual point")
+  const powerParts = SIDES.filter((s) => ok(r[s])).map((s) => `${s} eye ${powerBrief(r[s].answers!.power)}`);
+  const power = powerParts.length
+    ? html`<p class="facts small" data-k="eyes-power"><b>${POWER_AT_EYES}:</b> ${powerParts.join('; ')}.</p>`
+    : html``;
   const dw = f.demand ? demandWords(f.demand, Boolean(f.marks.right.prescribed || f.marks.left.prescribed)) : null;
   const demand = dw && g
     ? html`<ul class="demand">
@@ -302,7 +308,7 @@ ${header}
 <section data-k="answer-marks"><div class="qh"><h2>1. ${THREE_ANSWERS.marks.heading}</h2> <span class="q">${THREE_ANSWERS.marks.question}</span></div>${marks}</section>
 <section data-k="answer-standard"><div class="qh"><h2>2. ${THREE_ANSWERS.standard.heading}</h2> <span class="q">${THREE_ANSWERS.standard.question}</span></div>${standard}
 <p class="facts src" data-k="standard-source">Source of the limits: ${f.profile.source}.</p></section>
-<section data-k="answer-eyes"><div class="qh"><h2>3. ${THREE_ANSWERS.eyes.heading}: ${target}</h2> <span class="q">${THREE_ANSWERS.eyes.question}</span></div>${eyes}${demand}</section>
+<section data-k="answer-eyes"><div class="qh"><h2>3. ${THREE_ANSWERS.eyes.heading}: ${target}</h2> <span class="q">${THREE_ANSWERS.eyes.question}</span></div>${eyes}${power}${demand}</section>
 <section class="figs">
 <div class="figrow"><div class="grid">${figures}</div>
 <p class="small cap">Sections: to scale, with the traced line of sight (darker inside the lens; thin dashes: without the lens). Plots: the lens alone (untilted, CR on its axis): <span class="k k-prentice"></span>Prentice's rule, <span class="k k-paraxial"></span>first-order, <span class="k k-exact"></span>exact, <span class="k k-focimeter"></span>focimeter; dots: this case at its VP.</p></div>

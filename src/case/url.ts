@@ -5,7 +5,14 @@
  * readTraceCase when the case is computed, so a link with a bad value shows the same clear
  * error as typing it. The query uses short keys; every case field is written, so a link
  * reproduces the case even if the defaults change later. Pure: no DOM.
+ *
+ * A link can instead carry a both-eyes case (binocularToQuery, binocularFromQuery): the case
+ * document itself (docs/case-file.md), compact JSON in one `case` value, read back by the
+ * case file's own reader, so a link and a file hold a case the same way and are checked the
+ * same way (docs/saving.md, "Links").
  */
+import { type BinocularCase, type CaseDocument, readCaseText } from './caseFile.ts';
+import { InputError } from './input.ts';
 import type { RawFields } from './lensCase.ts';
 import { inRange, readNumber } from './input.ts';
 
@@ -193,3 +200,37 @@ function roundMm(v: number): number {
   return r === 0 ? 0 : r;
 }
 
+/** The query key that carries a both-eyes case. */
+export const BINOCULAR_QUERY_KEY = 'case';
+
+/**
+ * A both-eyes case as a link query: the document as compact JSON. The clinician summary's
+ * free text (`report`: recipient, practice, reference) stays out, because a link is pasted
+ * into messages and histories where a file is not; the file keeps it.
+ */
+export function binocularToQuery(doc: CaseDocument): string {
+  const { report: _report, ...rest } = doc;
+  void _report;
+  return new URLSearchParams({ [BINOCULAR_QUERY_KEY]: JSON.stringify(rest) }).toString();
+}
+
+/** Does this query carry a both-eyes case? */
+export function queryCarriesBinocular(query: string): boolean {
+  return new URLSearchParams(query).has(BINOCULAR_QUERY_KEY);
+}
+
+/**
+ * The both-eyes case a link carries: null when it carries none; otherwise the validated case,
+ * or the reason it was refused (a CaseError, naming the field by its path, e.g.
+ * "right.sphere"). Checked whole, as a file is: nothing of a refused case is used.
+ */
+export function binocularFromQuery(query: string): { ok: true; case: BinocularCase } | { ok: false; error: InputError } | null {
+  const text = new URLSearchParams(query).get(BINOCULAR_QUERY_KEY);
+  if (text === null) return null;
+  try {
+    return { ok: true, case: readCaseText(text) };
+  } catch (e) {
+    if (e instanceof InputError) return { ok: false, error: e };
+    throw e;
+  }
+}

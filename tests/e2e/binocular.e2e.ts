@@ -612,7 +612,8 @@ test('limits view: exact limit below Prentice for a thick high-plus lens; prism 
   const exact = await value(page, '[data-out="limit"]', 'limit-exact');
   const prentice = await value(page, '[data-out="limit"]', 'limit-prentice');
   expect(exact).toBeLessThan(prentice);
-  // Prentice's rule c = P / F: 0.5 Δ / 10 D = 0.05 cm = 0.50 mm (handbook formula)
+  // Prentice's rule c = P / F: 0.5 Δ / 10 D = 0.05 cm = 0.50 mm (C. F. Prentice, 1890, Archives
+  // of Ophthalmology; from memory)
   expect(prentice).toBeCloseTo(0.5, 9);
   expect(await value(page, '[data-out="limit"]', 'limit-diff')).toBeCloseTo(exact - prentice, 9);
   // the region drawn: exact inside Prentice's (a smaller outline over the lens)
@@ -622,8 +623,9 @@ test('limits view: exact limit below Prentice for a thick high-plus lens; prism 
   });
   expect(await box('bi-region-exact')).toBeLessThan(await box('bi-region-prentice'));
   // prescribed prism 1 Δ base in: Prentice c = P / F = 1 mm, the OC 1 mm nasal of the visual
-  // point (plus lens: decentre in for base in; handbook rule); minimum blank = ED + 2 c + 2 mm
-  // (common practice, no source)
+  // point (a plus lens's prism has its base towards the optical centre, so an OC nasal of the
+  // visual point gives base in: the base direction of Prentice's rule, Prentice 1890, from
+  // memory); minimum blank = ED + 2 c + 2 mm (common practice, no source)
   await page.screenshot({ path: `${SHOTS}/binocular-06-limits.png` });
   await page.locator('#workspace-both .bi-subtabs button[data-pane="prescribed"]').click();
   await field(page, 'limits.h').fill('1');

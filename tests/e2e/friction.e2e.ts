@@ -7,8 +7,9 @@
  * - a decimal comma typed in a number field reads as the point ("6,5" is 6.5), and text where
  *   the comma is ambiguous ("1,234.5", "4,5,6") is refused with a hint at its field.
  *
- * Where an expected number is a formula it is Prentice's rule, P = c·F with c in cm (any
- * ophthalmic optics handbook, e.g. Jalie, "Ophthalmic Lenses and Dispensing"; docs/method.md),
+ * Where an expected number is a formula it is Prentice's rule, P = c·F with c in cm (C. F.
+ * Prentice, 1890, Archives of Ophthalmology, restated in M. Jalie, "Ophthalmic Lenses and
+ * Dispensing"; from memory; docs/method.md),
  * on the demo case's visual point (x = 8 mm, y = −4 mm, an invented scenario). That the comma
  * and the point are both decimal signs is ISO 80000-1 (from memory: "the decimal sign is either
  * the comma on the line or the point on the line").

@@ -2,8 +2,9 @@
  * End-to-end checks of the "Range" workspace in Debian's Chromium.
  *
  * What the page shows is checked against: Prentice's rule itself (prism = decentration x
- * power, P = c F with c in cm; for a spherical lens the limit is 10 P / |F| mm, any optics
- * handbook, e.g. Jalie, "The Principles of Ophthalmic Lenses", from memory); the meaning of an
+ * power, P = c F with c in cm; for a spherical lens the limit is 10 P / |F| mm; C. F.
+ * Prentice, 1890, Archives of Ophthalmology, restated in M. Jalie, "The Principles of
+ * Ophthalmic Lenses"; from memory); the meaning of an
  * exact limit (the exact prism at the eye there equals the tolerance: read back from the
  * single-lens view the cell opens); the range module run here in Node on the same family
  * (src/case/range.ts, the rows the CLI prints); and the built command `decentra limits`, whose

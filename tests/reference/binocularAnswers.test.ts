@@ -224,7 +224,7 @@ describe('reading level and slab-off: R +1.00 / L +4.50, 10 mm below the distanc
     expect(o.remaining).toBeCloseTo(o.eyeImbalance - o.order, 12);
     expect(f.slabOff.at).toBe('level');
   });
-  it('the slab-off rule: from 1.5 Δ, 0.25 Δ steps rounded down, up to about 6 Δ (common practice, docs/choices.md)', () => {
+  it('the slab-off rule: from 1.5 Δ, 0.25 Δ steps rounded down, up to about 6 Δ (common practice, no source; docs/choices.md)', () => {
     expect(slabOff(-1.35, -1.4)).toMatchObject({ advice: 'not indicated', order: 0 });
     expect(slabOff(-1.5, -1.6)).toMatchObject({ advice: 'indicated', order: 1.5, eye: 'R' });
     expect(slabOff(2.49, 2.6)).toMatchObject({ order: 2.25, eye: 'L' });

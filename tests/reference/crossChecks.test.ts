@@ -53,7 +53,8 @@ function traced(lens: Lens, x: number, y: number): LineTrace {
 describe(`Fermat's principle: the traced path makes the optical path length stationary (${source})`, () => {
   // Optical path from the centre of rotation to a point 200 mm along the object-side ray, as a
   // function of the transverse positions of the two surface crossings (4 parameters); the
-  // surfaces are placed with the engine's sagAt (checked against handbook formulas elsewhere).
+  // surfaces are placed with the engine's sagAt (checked against the published sag formulas
+  // in tests/reference/sag.test.ts).
   const g = new SagEval();
   const opl = (lens: Lens, far: number[], v: number[]): number => {
     if (!lens.back.sagAt(v[0]!, v[1]!, g)) return Infinity;

@@ -63,8 +63,9 @@ describe('pantoscopic tilt: optical-centre drop', () => {
 
 describe('near vision', () => {
   it('near inset of a plano lens matches similar triangles about the centre of rotation', () => {
-    // inset per eye = (PD/2)·s/(d + s) with d from the spectacle plane (common practice,
-    // derived; about 2 mm per eye at 40 cm for PD 64). A flat plate shifts a ray sideways by
+    // inset per eye = (PD/2)·s/(d + s) with d from the spectacle plane (derived here from
+    // similar triangles about the centre of rotation; "about 2 mm per eye at 40 cm for PD 64"
+    // is common practice, no source). A flat plate shifts a ray sideways by
     // t(1 - 1/n)·tanθ only, far below the 0.02 mm tolerance here.
     const lens = makeLens({ sphereD: 0, cylD: 0, axisDeg: 0, index: 1.5, frontD: 0, ctMm: 2 });
     const setup = (eye: 'R' | 'L') => ({ lens, placement: flat(eye), pdMm: 32 });

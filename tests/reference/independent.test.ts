@@ -1,7 +1,7 @@
 /**
  * The engine's exact line-of-sight and focimeter prism against the independent 40-digit
  * reference of ./independent.ts (written from docs/method.md and docs/conventions.md and
- * textbook optics), its
+ * Snell's law in vector form, E. Hecht, "Optics", ch. 4), its
  * first-order values against an independent (y, nu) matrix trace, and Prentice against a
  * general-purpose matrix product (mathjs multiply(F, c)).
  */
@@ -12,7 +12,7 @@ import { type RefAnswer, type RefCase, randomCase, refExact, refFocimeter, refPa
 
 export const source =
   'independent 40-digit real-ray trace (tests/reference/independent.ts, from docs/method.md and ' +
-  'docs/conventions.md and textbook optics, Snell\'s law as in ' +
+  'docs/conventions.md, Snell\'s law in vector form as in ' +
   'Hecht, Optics ch. 4, Illinois root finding) and an independent paraxial (y, nu) matrix trace';
 /** The reference is good to ~1e-25 Δ; this is the engine's double-precision budget. */
 export const tolerance = 1e-9;

@@ -2,7 +2,7 @@
  * An INDEPENDENT reference implementation of the exact line-of-sight and focimeter prism
  * and of the first-order (paraxial) prism, written from docs/method.md and
  * docs/conventions.md (lens form, power matrix and base labels, the four answers) and
- * textbook optics, without the engine's code. It exists only to check the engine.
+ * Snell's law in vector form (E. Hecht, "Optics", ch. 4), without the engine's code. It exists only to check the engine.
  *
  * Deliberate differences from the engine, so that a shared mistake is unlikely:
  * - frame: the wearer frame of docs/conventions.md (centre of rotation at the origin, back

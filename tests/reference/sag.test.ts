@@ -1,5 +1,5 @@
 /**
- * Surface.sagAt against the handbook sag formulas: sphere s = r - sqrt(r² - y²), paraboloid
+ * Surface.sagAt against the published sag formulas (sources in `source` below): sphere s = r - sqrt(r² - y²), paraboloid
  * (k = -1) s = κ r² / 2, general conic s = κ r² / (1 + sqrt(1 - (1 + k) κ² r²)).
  */
 import { describe, expect, test } from 'vitest';
@@ -7,7 +7,8 @@ import { SagEval, Surface } from '../../src/optics/index.ts';
 
 export const source =
   'sag of a sphere s = r - sqrt(r² - y²) and of a conic z = c r² / (1 + sqrt(1 - (1 + k) c² r²)) ' +
-  '(standard optics, e.g. Jalie, The Principles of Ophthalmic Lenses)';
+  '(M. Jalie, The Principles of Ophthalmic Lenses, for the sphere; the conic as in the aspheric ' +
+  'surface equation of ISO 10110-12; both from memory)';
 /** Relative to the sag, near double precision; the formulas are evaluated directly. */
 export const tolerance = 1e-12;
 

@@ -51,8 +51,8 @@ describe('fit flags make the case a file with the same fields makes', () => {
   });
 
   it("a reading level 10 mm below: Prentice's rule P = cF gives 2.00 Δ base down for -2.00 D", () => {
-    // Prentice's rule, P = c F with c in cm (any ophthalmic optics handbook, e.g. Jalie,
-    // "The Principles of Ophthalmic Lenses"; from memory): 1.0 cm × 2.00 D = 2.00 Δ, and a
+    // Prentice's rule, P = c F with c in cm (C. F. Prentice, 1890, Archives of Ophthalmology,
+    // restated in M. Jalie, "The Principles of Ophthalmic Lenses"; from memory): 1.0 cm × 2.00 D = 2.00 Δ, and a
     // minus lens seen below its optical centre is base down (thicker edge below).
     const j = JSON.parse(ok(['--right-sphere', '-2', '--left-sphere', '-2', '--pd', '32,32', '--target', 'level:10', '--json']));
     expect(j.right.prentice.vertical.amount).toBeCloseTo(2, 12);

@@ -9,7 +9,8 @@ import { eigs } from 'mathjs';
 import { type SpheroCyl, det, normaliseAxis, powerMatrix, toSpheroCyl, transpose } from '../../src/optics/index.ts';
 
 // Source: dioptric power matrix (Long, Am J Optom Physiol Opt 1976;53:27-33; Harris), eigenvalues S
-// and S + C; transposition S / C x θ = (S + C) / -C x (θ ± 90) (standard optics, e.g. Jalie).
+// and S + C; transposition S / C x θ = (S + C) / -C x (θ ± 90) (M. Jalie, "The Principles of
+// Ophthalmic Lenses"; from memory).
 
 const rx = fc.record({
   sphereD: fc.double({ min: -25, max: 25, noNaN: true }),

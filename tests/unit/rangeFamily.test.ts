@@ -3,8 +3,8 @@
  * the command line the app shows prints the file the app writes (the CLI contract, docs/cli.md
  * and docs/range.md); a refused value names the form's field; a cell opens the very lens of its
  * row. Expected values come from the CLI's own entry points (src/cli/limits.ts, spec.ts) run on
- * the words the app shows, and from Prentice's rule (P = c F, c in cm; any optics handbook,
- * from memory), never from copied output.
+ * the words the app shows, and from Prentice's rule (P = c F, c in cm; C. F. Prentice, 1890,
+ * Archives of Ophthalmology; from memory), never from copied output.
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';

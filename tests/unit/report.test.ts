@@ -427,7 +427,7 @@ describe('published values on the page (the examples, invented scenarios)', () =
     // at the marks (the optical centres) there is no prism, so the standard has nothing to object to
     expect(cell(page, 'mk-prentice-v')).toBe('none (under 0.005 Δ)');
     expect(cell(page, 'verdict-vertical')).toBe('within');
-    // slab-off goes base up on the lens with the least plus (common practice, docs/choices.md "Slab-off")
+    // slab-off goes base up on the lens with the least plus (common practice, no source; docs/choices.md "Slab-off")
     expect(cell(page, 'slab-off')).toMatch(/base up on the right lens/);
   });
 

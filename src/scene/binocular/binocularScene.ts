@@ -1,6 +1,8 @@
 /**
  * The "both eyes" 3-D view: both lenses where their placements put them (meshes from the
- * engine's surfaces), the boxed frame outline, both eyes turned along their lines of sight,
+ * engine's surfaces), edged to the frame's shape when the case has a frame (a rounded
+ * rectangle of the box size on the boxed centre, edgedLens.ts; round blanks without one), the
+ * frame's outline along their edges, both eyes turned along their lines of sight,
  * both exact lines of sight from each centre of rotation through its lens to the target, the
  * straight lines the eyes would take without lenses, and the target.
  *
@@ -15,7 +17,7 @@
  * (rebuildContent() recreates them all, and a test checks that nothing is left behind).
  */
 import {
-  CylinderGeometry, Group, Matrix4, Mesh, MeshBasicMaterial, SphereGeometry, TorusGeometry, Vector3,
+  Box3, CylinderGeometry, Group, Matrix4, Mesh, MeshBasicMaterial, SphereGeometry, TorusGeometry, Vector3,
 } from 'three';
 import type { CSS2DObject } from 'three/examples/jsm/renderers/CSS2DRenderer.js';
 import { Hit, type Lens, type LineTrace, type Placement, type Target } from '../../optics/index.ts';
@@ -25,6 +27,7 @@ import { makeLabel } from '../markers.ts';
 import { COLORS } from '../palette.ts';
 import { RayTube } from '../rayTube.ts';
 import { Viewer } from '../viewer.ts';
+import { EdgedLensMesh, type Outline, boxOutline, outlinePoint } from './edgedLens.ts';
 
 /** The frame outline's colour (a warm grey, apart from the glass and the rays). */
 export const FRAME_COLOR = 0xc8b9a0;
@@ -36,7 +39,8 @@ const DISTANCE_RAY_MM = 260;
  * length about a reading distance, not a computed one).
  */
 const LEVEL_RAY_MM = 330;
-const EDGE_STEPS = 8;
+/** Points of the frame's outline drawn round each lens. */
+const FRAME_POINTS = 64;
 
 export interface EyeDrawing {
   eye: 'R' | 'L';
@@ -83,6 +87,9 @@ export const BINOCULAR_VIEWS: Record<BinocularViewName, string> = {
 class EyeContent {
   readonly lensGroup = new Group();
   readonly lens = new LensMesh();
+  /** the lens edged to the frame's shape (shown instead of the round blank when there is a frame) */
+  readonly edged = new EdgedLensMesh();
+  readonly outline: Outline = { cx: 0, cy: 0, hw: 1, hh: 1, r: 0 };
   readonly ocRing: Mesh;
   readonly eyeHolder = new Group();
   readonly eye = new EyeModel();
@@ -96,11 +103,11 @@ class EyeContent {
     this.lensGroup.matrixAutoUpdate = false;
     this.ocRing = new Mesh(ocG, ocM);
     this.ocRing.name = 'optical-centre';
-    this.lensGroup.add(this.lens.group, this.ocRing);
+    this.lensGroup.add(this.lens.group, this.edged.group, this.ocRing);
     this.eyeHolder.add(this.eye.group);
     this.sight = new RayTube(unit, { color: COLORS.exact, radiusMm: 0.32 }, 8);
     this.noLens = new RayTube(unit, { color: COLORS.undeviated, radiusMm: 0.16, dashMm: 2, gapMm: 3, opacity: 0.85 }, 400);
-    this.frameTube = new RayTube(unit, { color: FRAME_COLOR, radiusMm: 0.45 }, 4 * EDGE_STEPS + 4);
+    this.frameTube = new RayTube(unit, { color: FRAME_COLOR, radiusMm: 0.45 }, FRAME_POINTS + 2);
     this.vp = new Mesh(vpG, vpM);
     this.vp.name = 'visual-point';
     this.label = makeLabel('', 'scene-label--eye');
@@ -114,6 +121,7 @@ class EyeContent {
   dispose(): void {
     this.label.removeFromParent();
     this.lens.dispose();
+    this.edged.dispose();
     this.eye.dispose();
     this.sight.dispose();
     this.noLens.dispose();
@@ -165,7 +173,8 @@ class Content {
 const _m = new Matrix4();
 const _v = new Vector3();
 const _hit = new Hit();
-const _pts = new Float64Array(3 * (4 * EDGE_STEPS + 1));
+const _pts = new Float64Array(3 * (FRAME_POINTS + 1));
+const _op = new Float64Array(4);
 const _line = new Float64Array(12);
 const _end = new Float64Array(3);
 
@@ -198,19 +207,21 @@ export class BinocularScene {
     let maxR = 20;
     // the far ends of the drawn lines (for the preset views and a reading level's label)
     let endX = 0, endY = 0, endZ = 0, lowEnd = 0, farEnd = 0, ends = 0;
-    for (const [d, e] of [[input.right, c.right], [input.left, c.left]] as const) {
-      if (this.updateEye(d, e, t)) {
+    const boxes = input.frame;
+    for (const [d, e, box] of [[input.right, c.right, boxes?.right ?? null], [input.left, c.left, boxes?.left ?? null]] as const) {
+      if (this.updateEye(d, e, t, box)) {
         endX += _end[0]!; endY += _end[1]!; endZ += _end[2]!;
         lowEnd = Math.min(lowEnd, _end[1]!);
         farEnd = Math.max(farEnd, _end[2]!);
         ends++;
       }
-      if (d.lens) maxR = Math.max(maxR, d.lens.radiusMm);
+      if (d.lens && !box) maxR = Math.max(maxR, d.lens.radiusMm);
+      if (box) maxR = Math.max(maxR, box.yMax, -box.yMin);
     }
-    // the frame: each box on its lens, and a bridge between their upper inner corners
+    // the frame: its outline round each lens, and a bridge between their upper inner corners
     if (input.frame) {
-      const r = this.boxOn(input.right, input.frame.right, c.right);
-      const l = this.boxOn(input.left, input.frame.left, c.left);
+      const r = this.frameOn(input.right, c.right);
+      const l = this.frameOn(input.left, c.left);
       _line.set(r, 0);
       _line.set(l, 3);
       c.bridge.setPolyline(_line, 2);
@@ -239,7 +250,9 @@ export class BinocularScene {
     }
     c.targetLabel.element.textContent = input.targetLabel;
     // extents for the preset views
-    this.spanX = 2 * (Math.max(Math.abs(input.right.crXMm), Math.abs(input.left.crXMm)) + maxR) + 16;
+    this.spanX = boxes
+      ? 2 * Math.max(-boxes.right.xMin, boxes.left.xMax, -boxes.left.xMin, boxes.right.xMax) + 16
+      : 2 * (Math.max(Math.abs(input.right.crXMm), Math.abs(input.left.crXMm)) + maxR) + 16;
     this.lensZ = 0.5 * (input.right.placement.vz + input.left.placement.vz);
     this.nearZ = -22;
     this.farZ = t?.kind === 'point' ? t.z + 20 : t ? DISTANCE_RAY_MM + 10 : Math.max(farEnd, 60) + 20;
@@ -256,22 +269,30 @@ export class BinocularScene {
    * Draw one eye, its lens and its lines. Returns true with the far end of its line of sight
    * in _end when it has one.
    */
-  private updateEye(d: EyeDrawing, e: EyeContent, t: Target | null): boolean {
+  private updateEye(d: EyeDrawing, e: EyeContent, t: Target | null, box: FrameBox | null): boolean {
     const pl = d.placement;
     const r = pl.r;
     // lens frame -> binocular frame: rotate, then move to the back vertex and the eye's CR
     _m.set(r[0]!, r[1]!, r[2]!, pl.vx + d.crXMm, r[3]!, r[4]!, r[5]!, pl.vy, r[6]!, r[7]!, r[8]!, pl.vz, 0, 0, 0, 1);
     e.lensGroup.matrix.copy(_m);
     e.lensGroup.matrixWorldNeedsUpdate = true;
-    e.lens.group.visible = d.lens !== null;
-    if (d.lens) {
+    // the OC in the binocular frame, before tilting: the lens frame's origin for the box
+    if (box) boxOutline(box, d.crXMm + pl.vx, pl.vy, e.outline);
+    e.lens.group.visible = d.lens !== null && !box;
+    e.edged.group.visible = d.lens !== null && !!box;
+    if (d.lens && box) {
+      e.edged.update(d.lens, e.outline);
+      e.edged.setInvalid(false);
+    } else if (d.lens) {
       e.lens.update(d.lens);
       e.lens.setInvalid(false);
     }
     e.eyeHolder.position.set(d.crXMm, 0, 0);
     e.label.element.textContent = d.label;
-    const labelY = -(d.lens ? d.lens.radiusMm : 25) - 4;
-    const lp = pl.toEyePoint(0, labelY, 0);
+    // under the lens: under the frame's shape, or under the round blank
+    const labelX = box ? e.outline.cx : 0;
+    const labelY = box ? e.outline.cy - e.outline.hh - 4 : -(d.lens ? d.lens.radiusMm : 25) - 4;
+    const lp = pl.toEyePoint(labelX, labelY, 0);
     e.label.position.set(lp.x + d.crXMm, lp.y, lp.z);
     const tr = d.trace;
     // without lenses: straight from the CR at the target; for a reading level (no target),
@@ -323,27 +344,20 @@ export class BinocularScene {
   }
 
   /**
-   * Draw a box on its lens (following the lens's curvature: each point halfway between the
-   * surfaces), and return its upper inner corner in the binocular frame.
+   * Draw the frame's outline round its lens (the edged lens's own outline, each point halfway
+   * between the surfaces), and return its upper inner corner in the binocular frame.
    */
-  private boxOn(d: EyeDrawing, box: FrameBox, e: EyeContent): [number, number, number] {
-    const pl = d.placement;
-    // the OC in the binocular frame, before tilting
-    const ocX = d.crXMm + pl.vx, ocY = pl.vy;
-    const corners: [number, number][] = [[box.xMin, box.yMin], [box.xMax, box.yMin], [box.xMax, box.yMax], [box.xMin, box.yMax]];
-    let k = 0;
-    for (let s = 0; s < 4; s++) {
-      const [ax, ay] = corners[s]!;
-      const [bx, by] = corners[(s + 1) % 4]!;
-      for (let i = 0; i < EDGE_STEPS; i++) {
-        const u = i / EDGE_STEPS;
-        this.onLens(d, ax + u * (bx - ax) - ocX, ay + u * (by - ay) - ocY, k++);
-      }
+  private frameOn(d: EyeDrawing, e: EyeContent): [number, number, number] {
+    const o = e.outline;
+    for (let k = 0; k <= FRAME_POINTS; k++) {
+      outlinePoint(o, k / FRAME_POINTS, _op);
+      this.onLens(d, _op[0]!, _op[1]!, k);
     }
-    this.onLens(d, corners[0]![0] - ocX, corners[0]![1] - ocY, k++);
-    e.frameTube.setPolyline(_pts, k);
-    // the upper inner (nasal) corner, for the bridge: right eye xMax, left eye xMin
-    this.onLens(d, (d.eye === 'R' ? box.xMax : box.xMin) - ocX, box.yMax - ocY, 0);
+    e.frameTube.setPolyline(_pts, FRAME_POINTS + 1);
+    // the upper inner (nasal) end of the straight side, for the bridge: the right eye's nasal
+    // side is towards +x, the left eye's towards -x
+    const nasal = d.eye === 'R' ? 1 : -1;
+    this.onLens(d, o.cx + nasal * o.hw, o.cy + o.hh - o.r, 0);
     return [_pts[0]!, _pts[1]!, _pts[2]!];
   }
 
@@ -365,8 +379,10 @@ export class BinocularScene {
 
   /** The inputs no longer make a case: keep the last drawing, the glass tinted as invalid. */
   markInvalid(): void {
-    this.content.right.lens.setInvalid(true);
-    this.content.left.lens.setInvalid(true);
+    for (const e of [this.content.right, this.content.left]) {
+      e.lens.setInvalid(true);
+      e.edged.setInvalid(true);
+    }
     this.viewer.requestRender();
   }
 
@@ -440,6 +456,24 @@ export class BinocularScene {
     o.getWorldPosition(_v).project(this.viewer.camera);
     const rect = this.viewer.renderer.domElement.getBoundingClientRect();
     return { x: rect.left + ((_v.x + 1) / 2) * rect.width, y: rect.top + ((1 - _v.y) / 2) * rect.height };
+  }
+
+  /**
+   * For tests: how each lens is drawn ('edged' to the frame, a 'round' blank, or 'none') and
+   * the extent of the drawn glass in the binocular frame, mm.
+   */
+  lensExtents(): Record<'right' | 'left', { shape: 'edged' | 'round' | 'none'; xMin: number; xMax: number; yMin: number; yMax: number }> {
+    const one = (e: EyeContent) => {
+      const g = e.edged.group.visible ? e.edged.group : e.lens.group.visible ? e.lens.group : null;
+      e.lensGroup.updateMatrixWorld(true);
+      const b = new Box3();
+      if (g) b.setFromObject(g);
+      return {
+        shape: g === e.edged.group ? 'edged' as const : g ? 'round' as const : 'none' as const,
+        xMin: g ? b.min.x : 0, xMax: g ? b.max.x : 0, yMin: g ? b.min.y : 0, yMax: g ? b.max.y : 0,
+      };
+    };
+    return { right: one(this.content.right), left: one(this.content.left) };
   }
 
   dispose(): void {

@@ -204,6 +204,7 @@ export class BinocularWorkspace {
       },
       limitsComputed: () => this.limits.computed,
       clientPosition: (which: 'right-vp' | 'left-vp' | 'target') => this.scene.clientPosition(which),
+      lensExtents: () => this.scene.lensExtents(),
     };
   }
 

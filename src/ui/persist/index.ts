@@ -63,6 +63,8 @@ export interface PersistenceOptions {
   /** the header element that becomes the Case menu */
   menuHost: HTMLElement;
   getViewCase: () => ViewCase;
+  /** where notices go (the page's notice line); a new stack at the end of the page if absent */
+  notices?: Notices;
 }
 
 export interface Persistence {
@@ -75,7 +77,7 @@ export interface Persistence {
 }
 
 export function startPersistence(o: PersistenceOptions): Persistence {
-  const notices = new Notices();
+  const notices = o.notices ?? new Notices();
   const notify = notices.show.bind(notices);
   for (const p of o.saved.problems) notify('error', p.text, p.key);
   const storage = o.saved.storage;

@@ -1,10 +1,16 @@
 /**
- * Notices about saving, opening and exporting: a small stack in the top-right corner. A
- * problem stays until it is dismissed (or replaced by a notice with the same key); news goes
- * after a few seconds. Text only (textContent): nothing from a file or the storage is ever
- * read as markup.
+ * The app's notices (saving, opening, exporting, copied links): a stack in the notice line
+ * between the header and the workspace (#notice-area in index.html). The line takes room in
+ * the page's layout only while it holds a notice, so a notice covers nothing: not the view
+ * buttons, not the results' status, not a control (docs/visualiser.md, "Notices"). A problem
+ * stays until it is dismissed (or replaced by a notice with the same key); news goes after a
+ * few seconds. Text only (textContent): nothing from a file or the storage is ever read as
+ * markup.
  */
 import type { NoticeAction, NoticeKind } from './keeper.ts';
+
+/** How long news stays (ms); a problem stays until dismissed. */
+export const INFO_MS = 6000;
 
 export class Notices {
   readonly element: HTMLElement;
@@ -44,6 +50,11 @@ export class Notices {
     n.append(p, close);
     this.element.append(n);
     if (key) this.byKey.set(key, n);
-    if (kind === 'info') window.setTimeout(() => n.remove(), 6000);
+    if (kind === 'info') {
+      window.setTimeout(() => {
+        n.remove();
+        if (key && this.byKey.get(key) === n) this.byKey.delete(key);
+      }, INFO_MS);
+    }
   }
 }

@@ -6,7 +6,9 @@
  * (worker/range.worker.ts, the lenses shared between two), so the page never waits; a newer
  * family ends an older job. A
  * limit in the table, or a point of the chart, opens that lens at that decentration in the
- * single-lens view (through the `onOpen` it is given).
+ * single-lens view (through the `onOpen` it is given). Undo and redo (buttons above the
+ * controls, Ctrl/Cmd+Z and Shift+Ctrl/Cmd+Z) step through the valid families shown
+ * (src/ui/history.ts; docs/range.md, "Undo and redo").
  */
 import { InputError } from '../../case/input.ts';
 import { type Breakdown, type RangeRow, type RangeSpec, readLevels, readRangeSpec, rowsPerLens, withinText } from '../../case/range.ts';
@@ -14,6 +16,7 @@ import type { ViewCase } from '../../case/url.ts';
 import type { RangeJob, RangeMessage } from '../../worker/rangeProtocol.ts';
 import type { RangeExportSource, RangeExporter } from '../exports/range.ts';
 import { num } from '../format.ts';
+import { History, bindUndoKeys, undoButtons } from '../history.ts';
 import { el } from '../resultsPane.ts';
 import { BreakdownChart, levelText } from './breakdownChart.ts';
 import { RangeControls } from './controls.ts';
@@ -53,6 +56,10 @@ export class RangeWorkspace {
   private readonly command: HTMLElement;
   private form: FamilyForm;
   private shown: Shown | null = null;
+  /** the valid families, for undo and redo (a refused value is never a step) */
+  private readonly history: History<FamilyForm>;
+  private readonly syncUndo: (canUndo: boolean, canRedo: boolean) => void;
+  private readonly unbindKeys: () => void;
   /** the computing workers (one per core, at most two; built when first needed) */
   private readonly workers: (Worker | null)[] = new Array(Math.max(1, Math.min(2, navigator.hardwareConcurrency || 1))).fill(null);
   private readonly busy: boolean[] = this.workers.map(() => false);
@@ -136,6 +143,10 @@ export class RangeWorkspace {
       this.controls.setForm(this.form);
       this.changed(null);
     });
+    this.history = new History<FamilyForm>({ ...this.form }, sameFamily);
+    const undo = { undo: () => this.step('undo'), redo: () => this.step('redo') };
+    this.syncUndo = undoButtons(controlsHost, undo, 'range');
+    this.unbindKeys = bindUndoKeys(root, undo);
     this.table.onPick = (row, col) => {
       const d = cellDecentrationMm(row, col);
       if (d === null || !this.shown) return;
@@ -190,6 +201,9 @@ export class RangeWorkspace {
       return;
     }
     this.controls.showError(null, null);
+    // a valid family is a step (edits of one field in quick succession are one)
+    this.history.record({ ...this.form }, field);
+    this.syncUndo(this.history.canUndo, this.history.canRedo);
     this.fillPick(this.chartPick.cyl, spec.cyls.map((c) => `${num(c, 2)} D`));
     this.fillPick(this.chartPick.axis, spec.axes.map((a) => `${num(a, 0)}°`));
     this.fillPick(this.chartPick.dir, spec.directions.map((d) => d.label));
@@ -199,6 +213,15 @@ export class RangeWorkspace {
       this.settleTimer = 0;
       this.run();
     }, this.shown ? SETTLE_MS : 0);
+  }
+
+  /** Undo or redo: the whole family comes back, in the fields, the table and the chart. */
+  private step(which: 'undo' | 'redo'): void {
+    const f = which === 'undo' ? this.history.undo() : this.history.redo();
+    if (!f) return;
+    this.form = { ...f };
+    this.controls.setForm(this.form);
+    this.changed(null);
   }
 
   /** The family's checks (fast: the first lens's form only). */
@@ -383,13 +406,21 @@ export class RangeWorkspace {
       form: () => ({ ...self.form }),
       setForm: (f: Partial<FamilyForm>) => self.setForm({ ...self.form, ...f }),
       commandWords: (command: 'limits' | 'spec') => commandWords(self.form, command),
+      canUndo: () => self.history.canUndo,
+      canRedo: () => self.history.canRedo,
     };
   }
 
   dispose(): void {
     window.clearTimeout(this.settleTimer);
+    this.unbindKeys();
     for (const w of this.workers) w?.terminate();
     this.controls.dispose();
     this.root.replaceChildren();
   }
+}
+
+/** Two families are the same step when every field reads the same. */
+function sameFamily(a: FamilyForm, b: FamilyForm): boolean {
+  return JSON.stringify(a) === JSON.stringify(b);
 }

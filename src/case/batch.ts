@@ -9,7 +9,7 @@ import { type Lens, fourAnswers, isFailure } from '../optics/index.ts';
 import { flagOf } from './flags.ts';
 import { InputError } from './input.ts';
 import { type RawFields, buildLens, readLensForm } from './lensCase.ts';
-import { RANGE_COLUMNS, type RangeRow, type RangeSpec, angleDirection, lensRows, rangeCsvLine, rangeJsonLine, rangeLens } from './range.ts';
+import { type RangeRow, type RangeSpec, angleDirection, lensRows, rangeColumnsOf, rangeCsvLine, rangeJsonLine, rangeLens } from './range.ts';
 
 export { rangeValues } from './rangeValues.ts';
 
@@ -82,7 +82,7 @@ export function limitsRangeSpec(plan: BatchPlan): RangeSpec {
   delete fields.sphere; delete fields.cyl; delete fields.axis;
   return {
     fields, spheres: plan.powers, cyls: [form.cylD], axes: [form.axisDeg], directions: [angleDirection(plan.dirDeg)],
-    tolerances: [plan.maxPrism], eye: plan.eye, crMm: plan.cr, decimals: 2,
+    tolerances: [plan.maxPrism], powerBounds: null, eye: plan.eye, crMm: plan.cr, decimals: 2,
   };
 }
 
@@ -122,7 +122,7 @@ export function csvCell(v: number | string | null): string {
 
 /** The columns of the table (a sweep's from its first row; a limits table's the range's). */
 export function batchCols(plan: BatchPlan, first: Row): string[] {
-  return plan.kind === 'limits' ? [...RANGE_COLUMNS] : Object.keys(first);
+  return plan.kind === 'limits' ? [...rangeColumnsOf(first as unknown as RangeRow)] : Object.keys(first);
 }
 
 /** The file's head: the CSV header line, or the JSON text before the first row. */

@@ -93,6 +93,10 @@ export const LIMITS = {
   wrap: { min: -10, max: 35, unit: 'degrees' },
   /** a prescribed prism, per entry */
   prism: { min: 0, max: 20, unit: 'Δ' },
+  /** a bound on the pencil's mean or astigmatic error for decentration limits (docs/range.md) */
+  maxPowerError: { min: 0, max: 10, above: true, unit: 'D' },
+  /** a prism tolerance for decentration limits (docs/range.md) */
+  maxPrism: { min: 0, max: 50, above: true, unit: 'Δ' },
   prismAngle: { min: 0, max: 360, unit: 'degrees' },
   /** a reading level: depth below and inset from the distance centration point */
   levelBelow: { min: -20, max: 40, unit: 'mm' },
@@ -241,14 +245,14 @@ export function readTraceCase(f: RawFields, label: Labeller): { tc: TraceCase; l
   const xMm = present(f.x) ? inRange(label('x'), readNumber(label('x'), f.x, 'length'), LIMITS.point) : DEFAULTS.xMm;
   const yMm = present(f.y) ? inRange(label('y'), readNumber(label('y'), f.y, 'length'), LIMITS.point) : DEFAULTS.yMm;
   const lens = buildLens(lensForm, label);
-  if (Math.hypot(xMm, yMm) > lens.radiusMm) {
-    throw new InputError(
-      label(Math.abs(xMm) >= Math.abs(yMm) ? 'x' : 'y'),
-      `the visual point (${xMm}, ${yMm}) mm is ${fmt(Math.hypot(xMm, yMm))} mm from the optical centre, outside the ` +
-        `${fmt(2 * lens.radiusMm)} mm lens`,
-    );
-  }
+  if (Math.hypot(xMm, yMm) > lens.radiusMm) throw new InputError(label(Math.abs(xMm) >= Math.abs(yMm) ? 'x' : 'y'), outsideLens(xMm, yMm, lens.radiusMm));
   return { tc: { eye, lens: lensForm, crMm, xMm, yMm }, lens };
+}
+
+/** Why a visual point (mm from the optical centre) beyond the lens's edge is refused (here and in src/api). */
+export function outsideLens(xMm: number, yMm: number, radiusMm: number): string {
+  return `the visual point (${fmt(xMm)}, ${fmt(yMm)}) mm is ${fmt(Math.hypot(xMm, yMm))} mm from the optical centre, outside the ` +
+    `${fmt(2 * radiusMm)} mm lens`;
 }
 
 function fmt(v: number): string {

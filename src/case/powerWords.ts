@@ -3,7 +3,11 @@
  * the JSON shape of docs/cli.md: one wording for the command line, the app and the clinician
  * summary. Numbers are finite or a dash, never NaN or Infinity.
  */
-import type { PowerAnswer, TraceFailure } from '../optics/index.ts';
+import type { PowerAnswer } from '../optics/index.ts';
+
+/** A power, or why there is none (the engine's and the library's shapes alike). */
+type PowerOr = PowerAnswer | { failure: string; message: string };
+type TraceFailure = { failure: string; message: string };
 import { fixed } from './numberText.ts';
 
 /** The question the power answers, for headings and labels at one visual point. */
@@ -13,12 +17,12 @@ export const POWER_QUESTION_EYES = 'What power each eye gets at its visual point
 /** Its short label, for the printed summary. */
 export const POWER_AT_EYES = 'Power at the visual points (vertex sphere, against the prescription)';
 
-export function isPowerFailure(p: PowerAnswer | TraceFailure): p is TraceFailure {
+export function isPowerFailure(p: PowerOr): p is TraceFailure {
   return 'failure' in p;
 }
 
 /** The docs/cli.md `power` object, or the failure. */
-export function powerJson(p: PowerAnswer | TraceFailure): object {
+export function powerJson(p: PowerOr): object {
   if (isPowerFailure(p)) return { failure: p.failure === 'edge' ? 'geometry' : p.failure, message: p.message };
   return {
     matrix: p.matrix, sphere: p.sphere, cyl: p.cyl, axis: p.axis,
@@ -33,28 +37,36 @@ function dioptres(v: number, decimals = 2): string {
   return s.startsWith('-') || s === fixed(0, decimals) ? `${s} D` : `+${s} D`;
 }
 
-/** The vergence as a sphero-cylinder, e.g. "+3.79 / -0.00 x 90". */
+/** The vergence as a sphero-cylinder, e.g. "+3.79 / -0.12 x 90", or "+3.79 DS" when the cylinder rounds to 0. */
 export function spheroCylText(p: PowerAnswer, decimals = 2): string {
   const cyl = fixed(p.cyl, decimals);
-  return `${dioptres(p.sphere, decimals).slice(0, -2)} / ${cyl.startsWith('-') ? cyl : `+${cyl}`} x ${fixed(p.axis, 0)}`;
+  const sphere = dioptres(p.sphere, decimals).slice(0, -2);
+  if (cyl === fixed(0, decimals)) return `${sphere} DS`;
+  return `${sphere} / ${cyl.startsWith('-') ? cyl : `+${cyl}`} x ${fixed(p.axis, 0)}`;
 }
 
 /** One line for tables and panels: the vergence, then the two errors. */
-export function powerLine(p: PowerAnswer | TraceFailure, decimals = 2): string {
+export function powerLine(p: PowerOr, decimals = 2): string {
   if (isPowerFailure(p)) return `no answer: ${p.message}`;
   const ts = p.tangential === undefined ? '' : `; tangential ${dioptres(p.tangential, decimals)}, sagittal ${dioptres(p.sagittal!, decimals)}`;
   return `${spheroCylText(p, decimals)}; mean error ${dioptres(p.meanError, decimals)}, astigmatic error ${fixed(p.astigmaticError, decimals)} D${ts}`;
 }
 
+/** A table cell: the vergence and both errors, e.g. "+7.96 / -0.10 x 155 (mean -0.09, astigmatic 0.10 D)". */
+export function powerCell(p: PowerOr, decimals = 2): string {
+  if (isPowerFailure(p)) return `no answer: ${p.message}`;
+  return `${spheroCylText(p, decimals)} (mean ${dioptres(p.meanError, decimals).slice(0, -2)}, astigmatic ${fixed(p.astigmaticError, decimals)} D)`;
+}
+
 /** The demand line, where a near target set one. */
-export function demandLine(p: PowerAnswer | TraceFailure): string | null {
+export function demandLine(p: PowerOr): string | null {
   if (isPowerFailure(p) || p.demand === 0) return null;
   return `The target's vergence at the vertex sphere (${dioptres(p.demand)}) is allowed for: the errors are against the prescription plus it.`;
 }
 
 /** The errors in brief, e.g. "0.03 D more minus on average, 0.07 D unwanted cylinder" (against the prescription;
  *  a near target's vergence at the vertex sphere is allowed for: docs/method.md). */
-export function powerBrief(p: PowerAnswer | TraceFailure): string {
+export function powerBrief(p: PowerOr): string {
   if (isPowerFailure(p)) return `none (${p.message})`;
   const m = p.meanError;
   const mean = fixed(Math.abs(m)) === fixed(0) ? 'the prescribed mean power' : `${fixed(Math.abs(m))} D ${m > 0 ? 'more plus' : 'more minus'} on average`;
@@ -67,7 +79,7 @@ export function powerBrief(p: PowerAnswer | TraceFailure): string {
  * e.g. "The right eye gets 0.21 D more minus than prescribed on average, and 0.35 D of
  * unwanted cylinder."
  */
-export function powerPlainWords(p: PowerAnswer | TraceFailure, eyeName: string): string {
+export function powerPlainWords(p: PowerOr, eyeName: string): string {
   if (isPowerFailure(p)) return `No power could be found for the ${eyeName} eye: ${p.message}.`;
   const m = p.meanError;
   const mean = fixed(Math.abs(m)) === fixed(0)

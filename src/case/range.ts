@@ -19,8 +19,8 @@
  *   breakdownCsv / breakdownMarkdown(b, decimals), breakdownJson(b)   the breakdown as a file
  */
 import {
-  type Eye, type Lens, type LimitEnd, type ScanLimit, directionLimits, failureMessage, largestDiameterMm,
-  linearLimitMm, prenticeBreakdownLimits, prenticeErrorAlong, RayStatus,
+  type BoundedLimit, type Eye, type Lens, type LimitEnd, type ScanLimit, boundedLimit, directionLimits, failureMessage,
+  largestDiameterMm, linearLimitMm, prenticeBreakdownLimits, prenticeErrorAlong, RayStatus,
 } from '../optics/index.ts';
 import { fixed } from './fitWords.ts';
 import { flagOf } from './flags.ts';
@@ -41,7 +41,7 @@ export interface RangeDirection {
 }
 
 /** The fields of a range request besides the lens family's own (names for messages: RANGE_FLAGS). */
-export type RangeKey = 'power' | 'cyl' | 'axis' | 'dir' | 'maxPrism' | 'decimals';
+export type RangeKey = 'power' | 'cyl' | 'axis' | 'dir' | 'maxPrism' | 'maxMeanError' | 'maxAstigmatism' | 'decimals';
 
 /** A range request as typed: every value text (or numbers), validated by readRangeSpec. */
 export interface RangeInput {
@@ -55,6 +55,9 @@ export interface RangeInput {
   dir?: unknown;
   /** tolerances, Δ: a list, e.g. `0.25,0.5,1` */
   maxPrism: unknown;
+  /** optional bounds on the pencil's mean and astigmatic errors at the eye, D (one value each) */
+  maxMeanError?: unknown;
+  maxAstigmatism?: unknown;
   /** decimals for what people read (CSV, Markdown, the sheet); default 2 */
   decimals?: unknown;
   /**
@@ -76,6 +79,8 @@ export interface RangeSpec {
   directions: RangeDirection[];
   /** Δ, in the order given */
   tolerances: number[];
+  /** bounds on the power errors (docs/range.md, "Limits by power"); null when none is asked */
+  powerBounds: { maxMeanError?: number; maxAstigmatism?: number } | null;
   eye: Eye;
   /** back vertex to centre of rotation, mm */
   crMm: number;
@@ -125,6 +130,17 @@ export interface RangeRow {
   maxDiameter: number | null;
   /** 'ok', or why each null is null (and a note on a zero-power meridian) */
   reason: string;
+  // ---- present only when the range asks for power bounds (POWER_COLUMNS)
+  /** the bounds, D (null where not asked) */
+  maxMeanError?: number | null;
+  maxAstigmatism?: number | null;
+  /** the largest decentration with the pencil's |mean error| (or astigmatic error) within its bound, mm */
+  meanErrorLimit?: number | null;
+  astigmatismLimit?: number | null;
+  /** the largest decentration within every bound of the row (the prism tolerance and the power bounds), mm */
+  bounded?: number | null;
+  /** which bound ended it (prism, mean-error, astigmatism), or what ended the scans (edge, geometry, search, lens) */
+  boundedBy?: string;
 }
 
 /** The row keys, in order (CSV header and JSON key order). */
@@ -133,12 +149,25 @@ export const RANGE_COLUMNS = [
   'limitedBy', 'front', 'ct', 'edge', 'diameter', 'maxDiameter', 'reason',
 ] as const satisfies readonly (keyof RangeRow)[];
 
+/** The columns a row has when the range asks for power bounds, after RANGE_COLUMNS. */
+export const POWER_COLUMNS = [
+  'maxMeanError', 'maxAstigmatism', 'meanErrorLimit', 'astigmatismLimit', 'bounded', 'boundedBy',
+] as const satisfies readonly (keyof RangeRow)[];
+
+export type RangeColumn = (typeof RANGE_COLUMNS)[number] | (typeof POWER_COLUMNS)[number];
+
+/** A row's columns: RANGE_COLUMNS, and POWER_COLUMNS where the range asked for power bounds. */
+export function rangeColumnsOf(r: RangeRow | undefined): readonly RangeColumn[] {
+  return r !== undefined && r.boundedBy !== undefined ? [...RANGE_COLUMNS, ...POWER_COLUMNS] : RANGE_COLUMNS;
+}
+
 /** Computed columns: rounded to `decimals` in CSV and Markdown (inputs are printed as given). */
-const COMPUTED = new Set<string>(['exact', 'firstOrder', 'prentice', 'focimeter', 'front', 'ct', 'edge', 'maxDiameter']);
+const COMPUTED = new Set<string>(['exact', 'firstOrder', 'prentice', 'focimeter', 'front', 'ct', 'edge', 'maxDiameter', 'meanErrorLimit', 'astigmatismLimit', 'bounded']);
 
 /** The command line's names for the range fields (the default labeller). */
 export const RANGE_FLAGS: Record<RangeKey, string> = {
   power: '--power', cyl: '--cyl', axis: '--axis', dir: '--dir', maxPrism: '--max-prism', decimals: '--decimals',
+  maxMeanError: '--max-mean-error', maxAstigmatism: '--max-astigmatism',
 };
 
 export type RangeLabeller = (key: RangeKey | FieldKey) => string;
@@ -233,7 +262,12 @@ export function readRangeSpec(input: RangeInput, label: RangeLabeller = flagLabe
   const directions = present(input.dir) ? readDirections(label('dir'), input.dir, eye) : [{ label: 'nasal', deg: directionDeg('nasal', eye) }];
   if (!present(input.maxPrism)) throw new InputError(label('maxPrism'), 'is required (the tolerance in prism dioptres; a list gives several)');
   const tolerances = readValueList(label('maxPrism'), input.maxPrism, 'prism');
-  for (const t of tolerances) inRange(label('maxPrism'), t, { min: 0, max: 50, above: true, unit: 'Δ' });
+  for (const t of tolerances) inRange(label('maxPrism'), t, LIMITS.maxPrism);
+  const bound = (k: 'maxMeanError' | 'maxAstigmatism'): number | undefined =>
+    present(input[k]) ? inRange(label(k), readNumber(label(k), input[k], 'power'), LIMITS.maxPowerError) : undefined;
+  const maxMeanError = bound('maxMeanError'), maxAstigmatism = bound('maxAstigmatism');
+  const powerBounds = maxMeanError === undefined && maxAstigmatism === undefined ? null
+    : { ...(maxMeanError === undefined ? {} : { maxMeanError }), ...(maxAstigmatism === undefined ? {} : { maxAstigmatism }) };
   const decimals = present(input.decimals)
     ? inRange(label('decimals'), readNumber(label('decimals'), input.decimals), { min: 0, max: 10 })
     : 2;
@@ -243,7 +277,7 @@ export function readRangeSpec(input: RangeInput, label: RangeLabeller = flagLabe
   if (n > MAX_RANGE_ROWS) throw new InputError(label('power'), `the range gives ${n} rows; at most ${MAX_RANGE_ROWS}`);
   // the family's fields, checked once (the first lens's form)
   readLensForm({ ...fields, sphere: spheres[0], cyl: cyls[0], axis: axes[0] }, label);
-  return { fields, spheres, cyls, axes, directions, tolerances, eye, crMm, decimals };
+  return { fields, spheres, cyls, axes, directions, tolerances, powerBounds, eye, crMm, decimals };
 }
 
 /** The lenses of the range, in row order (sphere, then cylinder, then axis). */
@@ -362,6 +396,29 @@ function scanWhy(s: ScanLimit, tol: number, where: string): string {
   }
 }
 
+/**
+ * The power columns of a row (none when the range asks for no power bound): each power
+ * bound's limit and the largest decentration within all of the row's bounds, with the one
+ * that ended it; `e` is the row's exact prism scan (null when there is no lens).
+ */
+function powerColumns(spec: RangeSpec, byPower: BoundedLimit | null, e: ScanLimit | null): Partial<RangeRow> {
+  const b = spec.powerBounds;
+  if (!b) return {};
+  const limitOf = (name: 'mean-error' | 'astigmatism'): number | null => byPower?.each.find((x) => x.bound === name)?.limit.mm ?? null;
+  const cols = {
+    maxMeanError: b.maxMeanError ?? null, maxAstigmatism: b.maxAstigmatism ?? null,
+    meanErrorLimit: limitOf('mean-error'), astigmatismLimit: limitOf('astigmatism'),
+  };
+  if (!byPower || !e) return { ...cols, bounded: null, boundedBy: 'lens' };
+  const prismMm = e.end === 'prism' ? e.mm : null;
+  const candidates: [string, number | null][] = [['prism', prismMm], [byPower.endedBy ?? '', byPower.mm]];
+  let best: [string, number] | null = null;
+  for (const [name, mm] of candidates) if (mm !== null && (!best || mm < best[1])) best = [name, mm];
+  if (best) return { ...cols, bounded: best[1], boundedBy: best[0] };
+  // no bound reached: the scan that stopped first says why
+  return { ...cols, bounded: null, boundedBy: e.searchedToMm <= byPower.searchedToMm ? e.end : byPower.end };
+}
+
 /** The rows of one lens (all directions and tolerances). */
 export function lensRows(spec: RangeSpec, rl: RangeLens): RangeRow[] {
   const { key, lens } = rl;
@@ -377,6 +434,7 @@ export function lensRows(spec: RangeSpec, rl: RangeLens): RangeRow[] {
           sphere: key.sphere, cyl: key.cyl, axis: key.axis, direction: dir.label, dirDeg: dir.deg, maxPrism: tol,
           exact: null, firstOrder: null, prentice: null, focimeter: null, limitedBy: 'lens',
           front: null, ct: null, edge: null, diameter: null, maxDiameter: rl.maxDiameterMm, reason,
+          ...powerColumns(spec, null, null),
         });
       }
     }
@@ -387,6 +445,7 @@ export function lensRows(spec: RangeSpec, rl: RangeLens): RangeRow[] {
   const edge = diameter === null ? null : lens.edgeThicknessRange().min;
   for (const dir of spec.directions) {
     const r = directionLimits(lens, spec.crMm, dir.deg, spec.tolerances, true);
+    const byPower = spec.powerBounds ? boundedLimit(lens, spec.crMm, dir.deg, spec.powerBounds) : null;
     spec.tolerances.forEach((tol, i) => {
       const e = r.exact[i]!, f = r.focimeter[i]!;
       const prentice = linearLimitMm(r.prenticePerMm, tol);
@@ -403,6 +462,7 @@ export function lensRows(spec: RangeSpec, rl: RangeLens): RangeRow[] {
         sphere: key.sphere, cyl: key.cyl, axis: key.axis, direction: dir.label, dirDeg: dir.deg, maxPrism: tol,
         exact: e.mm, firstOrder, prentice, focimeter: f.mm, limitedBy: e.end,
         front, ct: lens.ctMm, edge, diameter, maxDiameter: null, reason: why.length ? why.join('; ') : 'ok',
+        ...powerColumns(spec, byPower, e),
       });
     });
   }
@@ -536,25 +596,25 @@ function readable(v: number | null, decimals: number, computed: boolean): string
   return computed ? fx(v, decimals) : String(v);
 }
 
-function cellOf(r: RangeRow, c: (typeof RANGE_COLUMNS)[number], decimals: number): string {
+function cellOf(r: RangeRow, c: RangeColumn, decimals: number): string {
   const v = r[c];
-  return typeof v === 'number' || v === null ? readable(v, decimals, COMPUTED.has(c)) : v;
+  return typeof v === 'number' || v === null || v === undefined ? readable(v ?? null, decimals, COMPUTED.has(c)) : v;
 }
 
 /** One row as a CSV line (no newline); computed values to `decimals` places. */
 export function rangeCsvLine(r: RangeRow, decimals = 2): string {
-  return RANGE_COLUMNS.map((c) => csvText(cellOf(r, c, decimals))).join(',');
+  return rangeColumnsOf(r).map((c) => csvText(cellOf(r, c, decimals))).join(',');
 }
 
 /** The rows as CSV: a header of the JSON keys, then a line per row; computed values to `decimals` places. */
 export function rangeCsv(rows: readonly RangeRow[], decimals = 2): string {
-  return [RANGE_COLUMNS.join(','), ...rows.map((r) => rangeCsvLine(r, decimals))].join('\n');
+  return [rangeColumnsOf(rows[0]).join(','), ...rows.map((r) => rangeCsvLine(r, decimals))].join('\n');
 }
 
 /** One row as a JSON object on one line, keys in RANGE_COLUMNS order, full precision (never NaN). */
 export function rangeJsonLine(r: RangeRow): string {
-  return JSON.stringify(Object.fromEntries(RANGE_COLUMNS.map((c) => {
-    const v = r[c];
+  return JSON.stringify(Object.fromEntries(rangeColumnsOf(r).map((c) => {
+    const v = r[c] ?? null;
     return [c, typeof v === 'number' && !Number.isFinite(v) ? null : v];
   })));
 }
@@ -565,7 +625,9 @@ export function rangeJson(rows: readonly RangeRow[]): string {
 }
 
 /** Headings of the Markdown table (units in the heading). */
-const MD_HEAD: Record<(typeof RANGE_COLUMNS)[number], string> = {
+const MD_HEAD: Record<RangeColumn, string> = {
+  maxMeanError: 'mean error bound D', maxAstigmatism: 'astigmatism bound D', meanErrorLimit: 'by mean error mm',
+  astigmatismLimit: 'by astigmatism mm', bounded: 'within all bounds mm', boundedBy: 'bounded by',
   sphere: 'sphere D', cyl: 'cyl D', axis: 'axis °', direction: 'direction', dirDeg: 'dir °', maxPrism: 'tolerance Δ',
   exact: 'exact mm', firstOrder: 'first-order mm', prentice: 'Prentice mm', focimeter: 'focimeter mm', limitedBy: 'limited by',
   front: 'front D', ct: 'ct mm', edge: 'edge mm', diameter: 'diameter mm', maxDiameter: 'largest diameter mm', reason: 'note',
@@ -577,9 +639,10 @@ function mdCell(s: string): string {
 
 /** The rows as a Markdown table; '—' where there is no value, the note only where it is not 'ok'. */
 export function rangeMarkdown(rows: readonly RangeRow[], decimals = 2): string {
-  const head = `| ${RANGE_COLUMNS.map((c) => MD_HEAD[c]).join(' | ')} |`;
-  const rule = `|${RANGE_COLUMNS.map((c) => (c === 'direction' || c === 'limitedBy' || c === 'reason' ? ' --- ' : ' ---: ')).join('|')}|`;
-  const body = rows.map((r) => `| ${RANGE_COLUMNS.map((c) => {
+  const cols = rangeColumnsOf(rows[0]);
+  const head = `| ${cols.map((c) => MD_HEAD[c]).join(' | ')} |`;
+  const rule = `|${cols.map((c) => (c === 'direction' || c === 'limitedBy' || c === 'reason' || c === 'boundedBy' ? ' --- ' : ' ---: ')).join('|')}|`;
+  const body = rows.map((r) => `| ${cols.map((c) => {
     if (c === 'reason') return mdCell(r.reason === 'ok' ? '' : r.reason);
     const s = cellOf(r, c, decimals);
     return s === '' ? '—' : mdCell(s);

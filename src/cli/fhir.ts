@@ -1,14 +1,15 @@
 /**
  * `decentra import` and `decentra export`: prescriptions in and out through HL7 FHIR's
- * VisionPrescription (docs/fhir.md). Glue only: src/case/fhir.ts reads, checks and writes.
+ * VisionPrescription (docs/fhir.md). Glue only: the library (src/cli/api.ts) reads, checks and
+ * writes, with src/case/fhir.ts behind it.
  */
-import { CaseError, writeCase } from '../case/caseFile.ts';
-import { FhirError, MAX_FHIR_BYTES, importVisionPrescriptionText, visionPrescriptionFromCase } from '../case/fhir.ts';
-import { InputError, inRange, readNumber } from '../case/input.ts';
-import { LIMITS } from '../case/lensCase.ts';
+import { MAX_CASE_BYTES } from '../case/caseFile.ts';
+import { MAX_FHIR_BYTES } from '../case/fhir.ts';
+import { InputError } from '../case/input.ts';
+import { api, fileNames } from './api.ts';
 import { parseArgs } from './args.ts';
 import { oneLine, writeFileSafely } from './output.ts';
-import { loadCaseFile, readFileCapped } from './readFile.ts';
+import { readFileCapped } from './readFile.ts';
 import { readDay, today } from './report.ts';
 
 export const IMPORT_HELP = `decentra import: a case file from an HL7 FHIR VisionPrescription.
@@ -45,15 +46,12 @@ export interface WithNotes {
   notes: string[];
 }
 
-function readPds(raw: string | undefined): { right: number; left: number } | undefined {
+/** --pd R,L as the library's pd option (the two values as typed; the library checks them). */
+function readPds(raw: string | undefined): { right: string; left: string } | undefined {
   if (raw === undefined) return undefined;
   const parts = raw.split(',');
   if (parts.length !== 2) throw new InputError('--pd', `must be R,L in mm (e.g. 31.5,32), got '${oneLine(raw)}'`);
-  const r = LIMITS.pd;
-  return {
-    right: inRange('--pd', readNumber('--pd', parts[0], 'length'), r),
-    left: inRange('--pd', readNumber('--pd', parts[1], 'length'), r),
-  };
+  return { right: parts[0]!, left: parts[1]! };
 }
 
 export function runImport(argv: readonly string[]): WithNotes {
@@ -61,7 +59,7 @@ export function runImport(argv: readonly string[]): WithNotes {
   if (args.switches.has('help')) return { out: IMPORT_HELP, notes: [] };
   if (args.positional.length !== 1) throw new InputError('FILE.json', 'give exactly one FHIR resource file');
   const path = args.positional[0]!;
-  const pdMm = readPds(args.values.get('pd'));
+  const pd = readPds(args.values.get('pd'));
   const bytes = readFileCapped(path, MAX_FHIR_BYTES, oneLine(path), 'a FHIR resource file');
   let text: string;
   try {
@@ -69,14 +67,9 @@ export function runImport(argv: readonly string[]): WithNotes {
   } catch {
     throw new InputError(oneLine(path), 'is not valid UTF-8 text');
   }
-  let result: ReturnType<typeof importVisionPrescriptionText>;
-  try {
-    result = importVisionPrescriptionText(text, pdMm ? { pdMm } : {});
-  } catch (e) {
-    if (e instanceof FhirError || e instanceof CaseError) throw new InputError(`${oneLine(path)}: ${e.field}`, e.reason);
-    throw e;
-  }
-  const caseText = writeCase(result.doc);
+  const names = fileNames(oneLine(path), 'resource');
+  const result = api.importFhir(names, text, pd ? { pd } : {});
+  const caseText = api.writeCaseFile(names, result.case);
   const notes = result.notes.map((n) => `decentra import: assumed: ${n}`);
   const out = args.values.get('out');
   if (out === undefined) return { out: caseText, notes };
@@ -89,9 +82,10 @@ export function runExport(argv: readonly string[]): WithNotes {
   if (args.switches.has('help')) return { out: EXPORT_HELP, notes: [] };
   if (args.positional.length !== 1) throw new InputError('CASE.json', 'give exactly one case file');
   if (!args.switches.has('fhir')) throw new InputError('--fhir', 'is required: the format to export (FHIR VisionPrescription is the only one)');
-  const c = loadCaseFile(args.positional[0]!);
+  const path = oneLine(args.positional[0]!);
+  const bytes = readFileCapped(args.positional[0]!, MAX_CASE_BYTES, path, 'a case file');
   const day = args.values.has('date') ? readDay('--date', args.values.get('date')!) : today();
-  const { resource, notes } = visionPrescriptionFromCase(c.doc, day.toISOString().slice(0, 10));
+  const { resource, notes } = api.exportFhir(fileNames(path, 'case'), bytes, day.toISOString().slice(0, 10));
   const text = `${JSON.stringify(resource, null, 2)}\n`;
   const all = notes.map((n) => `decentra export: ${n}`);
   const out = args.values.get('out');

@@ -2,8 +2,9 @@
  * `decentra fit case.json`: a whole binocular case as three answers that are never mixed
  * (docs/binocular.md): at the marks, the standard's verdict, and what the eyes do at the target.
  */
+import { powerCell, powerJson } from '../case/powerWords.ts';
 import { type BinocularCase, writeCase } from '../case/caseFile.ts';
-import { type FitReport, evaluateFit } from '../case/fit.ts';
+import type { FitReport } from '../case/fit.ts';
 import {
   THREE_ANSWERS, demandWords, fixed, imbalanceWords, netHorizontalWords, offsetWords, prenticeVerdictWords, rotationWords,
   slabOffWords, targetWords, verdictLine,
@@ -12,6 +13,7 @@ import { InputError } from '../case/input.ts';
 import {
   type Answer, type EyeResult, type MarkEye, type SignedPair, type Verdict, isFailure, prismWords, ruleText,
 } from '../optics/index.ts';
+import { CASE_FIELDS, api } from './api.ts';
 import { parseArgs } from './args.ts';
 import { FIT_FLAGS_HELP, FIT_VALUE_FLAGS, caseFromFitFlags, hasFitFlags } from './fitFlags.ts';
 import { CAUTION, answerJson, table } from './format.ts';
@@ -73,7 +75,7 @@ function eyeJson(r: EyeResult): object {
     fromPupil: r.fromPupilMm,
     prentice: answerJson(r.answers.prentice),
     paraxial: answerJson(r.answers.paraxial),
-    exact: answerJson(r.answers.exact),
+    exact: { ...answerJson(r.answers.exact), power: powerJson(r.answers.power) },
     focimeter: answerJson(r.answers.focimeter),
     error: r.answers.error,
     rotationDeg: r.rotationDeg,
@@ -87,7 +89,7 @@ function markJson(m: MarkEye): object {
     point: m.point,
     prentice: a ? answerJson(a.prentice) : null,
     firstOrder: a ? answerJson(a.paraxial) : null,
-    exact: a ? answerJson(a.exact) : null,
+    exact: a ? { ...answerJson(a.exact), power: powerJson(a.power) } : null,
     focimeter: a ? answerJson(a.focimeter) : null,
     prescribed: m.prescribed ? answerJson(m.prescribed) : null,
     // where the optical centre must sit relative to the mark to produce the prescribed prism (lens frame, mm)
@@ -173,6 +175,7 @@ export function fitText(c: BinocularCase, f: FitReport): string {
     markRow('focimeter, exact', (e) => e.answers?.focimeter, m.net.focimeter),
     markRow('first-order, line of sight', (e) => e.answers?.paraxial, m.net.paraxial),
     markRow('exact, line of sight', (e) => e.answers?.exact, m.net.exact),
+    ['  power there', m.right.answers ? powerCell(m.right.answers.power) : '', m.left.answers ? powerCell(m.left.answers.power) : '', '', ''],
     [
       'prescribed', m.right.prescribed ? prismWords(m.right.prescribed) : 'none', m.left.prescribed ? prismWords(m.left.prescribed) : 'none',
       ...(m.right.prescribed || m.left.prescribed ? pairCells(m.prescribedNet) : ['', '']),
@@ -197,9 +200,9 @@ export function fitText(c: BinocularCase, f: FitReport): string {
 
   const r = f.result;
   const eyeCol = (e: EyeResult): string[] => {
-    if (!e.answers) return [`no line of sight: ${e.fixation.message}`, '', '', ''];
+    if (!e.answers) return [`no line of sight: ${e.fixation.message}`, '', '', '', ''];
     const rotWords = rotationWords(e.rotationDeg, e.eye);
-    return [offsetWords(e.fromOcMm.x, e.fromOcMm.y, e.eye, 'the OC'), rotWords, cell(e.answers.exact), cell(e.answers.prentice)];
+    return [offsetWords(e.fromOcMm.x, e.fromOcMm.y, e.eye, 'the OC'), rotWords, cell(e.answers.exact), cell(e.answers.prentice), powerCell(e.answers.power)];
   };
   const rc = eyeCol(r.right), lc = eyeCol(r.left);
   const eyesTable = table([
@@ -208,6 +211,7 @@ export function fitText(c: BinocularCase, f: FitReport): string {
     ['eye rotation', rc[1]!, lc[1]!],
     ['exact prism there', rc[2]!, lc[2]!],
     ["Prentice's rule there", rc[3]!, lc[3]!],
+    ['power there (vertex sphere)', rc[4]!, lc[4]!],
   ]);
   const pairTable = table([
     ['the pair at the target', 'net horizontal', 'vertical imbalance'],
@@ -282,7 +286,7 @@ export function runFit(argv: readonly string[]): string {
   if (!quick && args.switches.has('print-case')) throw new InputError('--print-case', 'prints the case made from flags; with a case file, the file is the case');
   const c = quick ? caseFromFitFlags(args) : loadCaseFile(args.positional[0]!);
   if (args.switches.has('print-case')) return writeCase(c.doc).trimEnd();
-  const f = evaluateFit(c);
+  const f = api.evaluateCase(CASE_FIELDS, c);
   if (args.switches.has('json')) return JSON.stringify(fitJson(c, f));
   return fitText(c, f);
 }

@@ -1,13 +1,21 @@
 /** Printing helpers for the CLI: the JSON answer shape of docs/cli.md and readable tables. */
-import type { Answer, FourAnswers } from '../optics/index.ts';
-import { isFailure } from '../optics/index.ts';
+import type { Answers, Failure, Prism } from '../api/index.ts';
+import type { Answer } from '../optics/index.ts';
+import { POWER_QUESTION, demandLine, powerJson, powerLine } from '../case/powerWords.ts';
+
+/** One answer as the engine or the library gives it: a prism, or a failure. */
+type AnyAnswer = Answer | Prism | Failure;
+
+function isFailure(a: AnyAnswer): a is Failure {
+  return 'failure' in a;
+}
 
 export const CAUTION =
   'Decentra is a computation aid. Verify prism on the finished spectacles with a focimeter, and defer to ' +
   'local regulations and licensed professional judgement.';
 
 /** The docs/cli.md ("`--json` output") shape of one answer: the described prism, or the failure. */
-export function answerJson(a: Answer): object {
+export function answerJson(a: AnyAnswer): object {
   // docs/cli.md names three failures; a ray that leaves through the lens edge has no
   // thickness of lens behind its exit point, so it is reported as a geometry failure
   if (isFailure(a)) return { failure: a.failure === 'edge' ? 'geometry' : a.failure, message: a.message };
@@ -18,15 +26,16 @@ export function answerJson(a: Answer): object {
   };
 }
 
-export function fourAnswersJson(r: FourAnswers, input: object): object {
+/** The docs/cli.md shape of the four answers at one point (the library's Answers). */
+export function fourAnswersJson(r: Answers, input: object): object {
   return {
     eye: r.eye,
     input,
     prentice: answerJson(r.prentice),
-    paraxial: answerJson(r.paraxial),
-    exact: answerJson(r.exact),
+    paraxial: answerJson(r.firstOrder),
+    exact: { ...answerJson(r.exact), power: powerJson(r.power) },
     focimeter: answerJson(r.focimeter),
-    error: r.error,
+    error: r.prenticeError,
   };
 }
 
@@ -40,7 +49,7 @@ function component(amount: number, base: string | null, decimals: number): strin
 }
 
 /** One row of the readable answer table. */
-export function answerCells(a: Answer, decimals = 3): string[] {
+export function answerCells(a: AnyAnswer, decimals = 3): string[] {
   if (isFailure(a)) return [`no answer: ${a.message}`, '', ''];
   return [
     component(a.horizontal.amount, a.horizontal.base === null ? null : `base ${a.horizontal.base}`, decimals),
@@ -58,12 +67,18 @@ export function table(rows: string[][]): string {
 
 export { csvCell } from '../case/batch.ts';
 
+/** The power beside the prism, for the text answer of `trace` and `near` (docs/method.md). */
+export function powerText(r: Answers): string {
+  const demand = demandLine(r.power);
+  return `${POWER_QUESTION}:\n  ${powerLine(r.power)}${demand ? `\n  ${demand}` : ''}`;
+}
+
 /** The readable table of the four answers (and the focimeter's first-order value, if asked). */
-export function answersTable(r: FourAnswers, withFirstOrderFocimeter = true): string {
+export function answersTable(r: Answers, withFirstOrderFocimeter = true): string {
   return table([
     ['answer', 'horizontal', 'vertical', 'resultant'],
     ["Prentice's rule", ...answerCells(r.prentice)],
-    ['first-order thick lens', ...answerCells(r.paraxial)],
+    ['first-order thick lens', ...answerCells(r.firstOrder)],
     ['exact, line of sight', ...answerCells(r.exact)],
     ['focimeter, exact', ...answerCells(r.focimeter)],
     ...(withFirstOrderFocimeter ? [['focimeter, first order', ...answerCells(r.focimeterFirstOrder)]] : []),

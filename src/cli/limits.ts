@@ -7,7 +7,7 @@ import { LIMITS, buildLens, readLensForm } from '../case/lensCase.ts';
 import {
   type RangeInput, type RangeRow, type RangeSpec, breakdown, breakdownCsv, breakdownJson, breakdownMarkdown, lensRows, readLevels, rangeCsv, rangeJson, rangeLens, rangeMarkdown, rangeRows, readRangeSpec,
 } from '../case/range.ts';
-import { type Lens, directionLimits } from '../optics/index.ts';
+import { type Lens, boundedLimit, directionLimits } from '../optics/index.ts';
 import { LENS_FLAGS, type ParsedArgs, flagOf, parseArgs, rawFields } from './args.ts';
 import { CAUTION, table } from './format.ts';
 
@@ -18,6 +18,12 @@ Usage: decentra limits --sphere D --max-prism P [--dir DIR] [lens flags] [--json
                        [lens flags] [--format csv|json|md] [--decimals N]
 
   --max-prism P     tolerance, prism dioptres (e.g. 0.5); a list gives several (0.25,0.5,1)
+  --max-mean-error D, --max-astigmatism D
+                    bounds on the power the eye gets along the same lines of sight (the
+                    pencil's mean and astigmatic errors at the vertex sphere, 0 to 10 D); one
+                    lens may give them alone; a range adds the columns maxMeanError,
+                    maxAstigmatism, meanErrorLimit, astigmatismLimit, bounded (mm, within every
+                    bound) and boundedBy (prism, mean-error, astigmatism, or what ended the scan)
   --dir DIR         direction of decentration: nasal, temporal, up, down (for the eye of
                     --eye), or degrees counter-clockwise from +x, the wearer's left (default 0);
                     a list gives several (nasal,temporal,up,down or 0:315:45)
@@ -45,7 +51,7 @@ one cannot) and reason. See docs/range.md.
 `;
 
 const LIMIT_FLAGS = {
-  values: [...Object.keys(LENS_FLAGS), 'max-prism', 'dir', 'power', 'format', 'decimals', 'breakdown'],
+  values: [...Object.keys(LENS_FLAGS), 'max-prism', 'max-mean-error', 'max-astigmatism', 'dir', 'power', 'format', 'decimals', 'breakdown'],
   switches: ['json', 'help'],
 };
 
@@ -64,6 +70,7 @@ export function rangeInputOf(args: ParsedArgs): RangeInput {
     power: power ?? f.sphere, cyl: f.cyl, axis: f.axis, dir: args.values.get('dir') ?? '0',
     // the breakdown needs no tolerance: any valid one stands in
     maxPrism: args.values.get('max-prism') ?? (args.values.has('breakdown') ? '1' : undefined), decimals: args.values.get('decimals'), fields: f,
+    maxMeanError: args.values.get('max-mean-error'), maxAstigmatism: args.values.get('max-astigmatism'),
   };
 }
 
@@ -77,10 +84,16 @@ export function runLimits(argv: readonly string[]): string {
   if (args.switches.has('help')) return LIMITS_HELP;
   if (args.positional.length) throw new InputError(args.positional[0]!, 'unexpected argument (flags start with --)');
   const v = args.values;
-  if (v.get('max-prism') === undefined && !v.has('breakdown')) throw new InputError('--max-prism', 'is required (the tolerance in prism dioptres)');
+  const byPower = v.has('max-mean-error') || v.has('max-astigmatism');
+  if (v.get('max-prism') === undefined && !v.has('breakdown') && !byPower) {
+    throw new InputError('--max-prism', 'is required (the tolerance in prism dioptres), or give --max-mean-error or --max-astigmatism');
+  }
   const f = rawFields(args);
   const table_ = v.has('power') || v.has('breakdown') || [v.get('max-prism'), v.get('dir'), f.cyl, f.axis].some((x) => isList(x as string | undefined));
   if (table_) {
+    if (v.get('max-prism') === undefined && !v.has('breakdown')) {
+      throw new InputError('--max-prism', 'is required for a range table (each row is one prism tolerance; the power bounds add columns)');
+    }
     const format = v.get('format') ?? (args.switches.has('json') ? 'json' : 'csv');
     if (format !== 'csv' && format !== 'json' && format !== 'md') throw new InputError('--format', `must be csv, json or md, got '${format}'`);
     const spec = readRangeFlags(args);
@@ -92,17 +105,69 @@ export function runLimits(argv: readonly string[]): string {
     return format === 'json' ? rangeJson(rows) : format === 'md' ? rangeMarkdown(rows, spec.decimals) : rangeCsv(rows, spec.decimals);
   }
   if (v.has('format')) throw new InputError('--format', 'is for a range table (--power); one lens prints text, or JSON with --json');
-  return oneLens(args);
+  return v.get('max-prism') === undefined ? powerOnlyLens(args) : oneLens(args);
+}
+
+/** The power columns of one lens's row, as the JSON object of docs/range.md ("Limits by power"). */
+function powerJsonOf(r: RangeRow): object {
+  return {
+    maxMeanError: r.maxMeanError, maxAstigmatism: r.maxAstigmatism, meanErrorLimit: r.meanErrorLimit,
+    astigmatismLimit: r.astigmatismLimit, bounded: r.bounded, boundedBy: r.boundedBy,
+  };
+}
+
+/** The power lines of one lens's text answer. */
+function powerTextOf(r: RangeRow, d: number, withPrism: boolean): string[] {
+  const mm = (x: number | null | undefined) => (x === null || x === undefined ? 'no limit within the lens' : `${x.toFixed(d)} mm`);
+  const ended = r.boundedBy === 'prism' ? 'the prism' : r.boundedBy === 'mean-error' ? 'the mean error'
+    : r.boundedBy === 'astigmatism' ? 'the astigmatic error' : `no bound (${r.boundedBy})`;
+  return [
+    `The power the eye gets along the same lines of sight (docs/method.md, "Power at the visual point"):`,
+    table([
+      ...(r.maxMeanError !== null && r.maxMeanError !== undefined ? [[`mean error within ${r.maxMeanError} D`, mm(r.meanErrorLimit)]] : []),
+      ...(r.maxAstigmatism !== null && r.maxAstigmatism !== undefined ? [[`astigmatic error within ${r.maxAstigmatism} D`, mm(r.astigmatismLimit)]] : []),
+      [withPrism ? 'within every bound, prism included' : 'within every bound', `${mm(r.bounded)}, ended by ${ended}`],
+    ]),
+  ];
+}
+
+/** One lens bounded by power only (no --max-prism): the largest decentration within the power bounds. */
+function powerOnlyLens(args: ParsedArgs): string {
+  const v = args.values;
+  const f = rawFields(args);
+  const form = readLensForm(f, flagOf);
+  // the range layer reads the bounds and the direction; a prism tolerance stands in and is not reported
+  const spec = readRangeSpec({
+    power: form.sphereD, cyl: form.cylD, axis: form.axisDeg, dir: v.get('dir') ?? '0', maxPrism: LIMITS.maxPrism.max,
+    decimals: v.get('decimals'), fields: f, maxMeanError: v.get('max-mean-error'), maxAstigmatism: v.get('max-astigmatism'),
+  });
+  const dir = spec.directions[0]!;
+  const rl = rangeLens(spec, { sphere: form.sphereD, cyl: form.cylD, axis: form.axisDeg });
+  if (!rl.lens) buildLens(form, flagOf); // the engine's refusal, naming the value
+  const b = boundedLimit(rl.lens!, spec.crMm, dir.deg, spec.powerBounds!);
+  const limitOf = (name: string) => b.each.find((e) => e.bound === name)?.limit.mm ?? null;
+  const row = {
+    maxMeanError: spec.powerBounds!.maxMeanError ?? null, maxAstigmatism: spec.powerBounds!.maxAstigmatism ?? null,
+    meanErrorLimit: limitOf('mean-error'), astigmatismLimit: limitOf('astigmatism'), bounded: b.mm, boundedBy: b.endedBy ?? b.end,
+  } as RangeRow;
+  if (args.switches.has('json')) return JSON.stringify({ direction: dir.deg, power: powerJsonOf(row) });
+  const named = dir.label.endsWith('°') ? `${dir.label}` : `${dir.label} (${dir.deg}°)`;
+  return [
+    `Largest decentration towards ${named} within the power bounds at the eye:`,
+    ...powerTextOf(row, spec.decimals, false),
+    CAUTION,
+  ].join('\n');
 }
 
 /** One lens: a lens that cannot be made is an error here, not a row. */
 function oneLens(args: ParsedArgs): string {
   const v = args.values;
-  const maxPrism = inRange('--max-prism', readNumber('--max-prism', v.get('max-prism'), 'prism'), { min: 0, max: 50, above: true, unit: 'Δ' });
+  const maxPrism = inRange('--max-prism', readNumber('--max-prism', v.get('max-prism'), 'prism'), LIMITS.maxPrism);
   const f = rawFields(args);
   const form = readLensForm(f, flagOf);
   const spec = readRangeSpec({
     power: form.sphereD, cyl: form.cylD, axis: form.axisDeg, dir: v.get('dir') ?? '0', maxPrism, decimals: v.get('decimals'), fields: f,
+    maxMeanError: v.get('max-mean-error'), maxAstigmatism: v.get('max-astigmatism'),
   });
   const dir = spec.directions[0]!;
   const rl = rangeLens(spec, { sphere: form.sphereD, cyl: form.cylD, axis: form.axisDeg });
@@ -123,6 +188,7 @@ function oneLens(args: ParsedArgs): string {
     return JSON.stringify({
       exact: r.exact, prentice: r.prentice, paraxial: r.firstOrder, focimeter: r.focimeter, difference,
       maxPrism, direction: dir.deg, limitedBy: limitedByOf(r, rl.lens!, spec.crMm), reason: r.reason,
+      ...(spec.powerBounds ? { power: powerJsonOf(r) } : {}),
     });
   }
   const d = spec.decimals;
@@ -140,6 +206,7 @@ function oneLens(args: ParsedArgs): string {
     `Lens: front ${r.front!.toFixed(2)} D, centre ${r.ct!.toFixed(2)} mm` +
       (r.edge !== null ? `, thinnest edge ${r.edge.toFixed(2)} mm on ${r.diameter} mm` : ''),
     r.reason === 'ok' ? '' : `Note: ${r.reason}.`,
+    ...(spec.powerBounds ? powerTextOf(r, d, true) : []),
     CAUTION,
   ].filter(Boolean).join('\n');
 }

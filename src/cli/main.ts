@@ -3,11 +3,13 @@
  * with one line on stderr that names the flag and the reason.
  */
 import { InputError } from '../case/input.ts';
+import { DecentraError } from './api.ts';
 import { MATERIALS } from '../optics/index.ts';
 import { FIT_HELP, runFit } from './fit.ts';
 import { LIMITS_HELP, runLimits } from './limits.ts';
 import { SPEC_HELP, runSpec } from './spec.ts';
 import { EXPORT_HELP, IMPORT_HELP, runExport, runImport } from './fhir.ts';
+import { FORM_HELP, runForm } from './form.ts';
 import { NEAR_HELP, runNear } from './near.ts';
 import { runReport } from './report.ts';
 import { oneLine } from './output.ts';
@@ -24,6 +26,7 @@ Commands
   sweep       a table over powers and decentrations for a lens family (CSV or JSON)
   near        the visual point and prism for a target in front of the eye (exact trace)
   limits      the largest decentration within a prism tolerance, exactly and by Prentice
+  form        the front curves free of oblique astigmatism or mean error (best forms, exact trace)
   spec        a printable spec sheet for a lens range: limits, where Prentice breaks down (HTML)
   fit         a whole binocular case (a case file, or flags): at the marks, the standard's verdict, the eyes
   report      a one-page printable summary of a case file for a referring clinician (HTML)
@@ -69,6 +72,8 @@ export function run(argv: readonly string[]): RunResult {
         return { out: runFit(rest), code: 0 };
       case 'report':
         return { out: runReport(rest), code: 0 };
+      case 'form':
+        return { out: runForm(rest), code: 0 };
       case 'materials':
         return { out: materials(), code: 0 };
       case undefined:
@@ -80,11 +85,13 @@ export function run(argv: readonly string[]): RunResult {
         return { out: '', code: 2, err: oneLine(`decentra: unknown command '${cmd}' (try: decentra --help)`) };
     }
   } catch (e) {
-    if (e instanceof InputError) return { out: '', code: 2, err: oneLine(`decentra ${cmd}: ${e.message}`) };
+    // a refusal by the library (src/cli/api.ts) names the flag as an InputError does
+    if (e instanceof InputError || e instanceof DecentraError) return { out: '', code: 2, err: oneLine(`decentra ${cmd}: ${e.message}`) };
     throw e;
   }
 }
 
+export { FORM_HELP };
 export { TRACE_HELP, SWEEP_HELP, NEAR_HELP, LIMITS_HELP, FIT_HELP, SPEC_HELP, IMPORT_HELP, EXPORT_HELP };
 
 /** The installed command (bin/decentra.mjs): streams output, one-line errors, exit statuses. */

@@ -1,11 +1,8 @@
-/** `decentra near`: the visual point and the four answers for a target in front of one eye. */
-import { InputError, inRange, readNumber } from '../case/input.ts';
-import { LIMITS, readTraceCase } from '../case/lensCase.ts';
-import { Placement, type TiltDrop, fourAnswersPlaced, solveFixation, tiltDropMm } from '../optics/index.ts';
-
-const TILT_DROPS: readonly TiltDrop[] = ['none', 'rule-of-thumb', 'centre-of-rotation'];
-import { LENS_FLAGS, flagOf, parseArgs, rawFields, strayArgument } from './args.ts';
-import { CAUTION, answersTable, fourAnswersJson } from './format.ts';
+/** `decentra near`: the visual point and the four answers for a target in front of one eye, through the library (src/cli/api.ts). */
+import { InputError, readNumber } from '../case/input.ts';
+import { FLAGS, api, lensFlags } from './api.ts';
+import { LENS_FLAGS, parseArgs, strayArgument } from './args.ts';
+import { CAUTION, answersTable, fourAnswersJson, powerText } from './format.ts';
 
 export const NEAR_HELP = `decentra near: where the eye looks through the lens at a target, and the prism there.
 
@@ -46,39 +43,32 @@ export function runNear(argv: readonly string[]): string {
   if (args.switches.has('help')) return NEAR_HELP;
   if (args.positional.length) throw strayArgument(args.positional[0]!);
   const [tx, ty, tz] = readPoint('--at', args.values.get('at'));
-  const opt = (flag: string, r: { min: number; max: number; unit: string }): number => {
-    const v = args.values.get(flag);
-    return v === undefined ? 0 : inRange(`--${flag}`, readNumber(`--${flag}`, v, r.unit === 'mm' ? 'length' : 'angle'), r);
-  };
-  const ocX = opt('oc-x', LIMITS.point), ocY = opt('oc-y', LIMITS.point);
-  const panto = opt('panto', LIMITS.panto), wrap = opt('wrap', LIMITS.wrap);
-  const dropRule = args.values.get('tilt-drop') ?? 'none';
-  if (!TILT_DROPS.includes(dropRule as TiltDrop)) {
-    throw new InputError('--tilt-drop', `must be one of ${TILT_DROPS.join(', ')}, got '${dropRule}'`);
-  }
-  const { tc, lens } = readTraceCase(rawFields(args), flagOf);
-  const drop = tiltDropMm(dropRule as TiltDrop, panto, tc.crMm);
-  const pl = new Placement({ ocXMm: ocX, ocYMm: ocY - drop, crDistanceMm: tc.crMm, pantoDeg: panto, wrapDeg: wrap, eye: tc.eye });
-  const fix = solveFixation(lens, pl, { kind: 'point', x: tx, y: ty, z: tz });
-  if (fix.status === 'target') throw new InputError('--at', fix.message);
+  const lens = api.buildLens(FLAGS, lensFlags(args));
+  const v = args.values;
+  const n = api.near(FLAGS, lens, {
+    at: { x: tx, y: ty, z: tz }, cr: v.get('cr'), eye: v.get('eye'), ocX: v.get('oc-x'), ocY: v.get('oc-y'),
+    panto: v.get('panto'), wrap: v.get('wrap'), tiltDrop: v.get('tilt-drop'),
+  });
+  const p = n.placed;
   const input = {
-    sphere: tc.lens.sphereD, cyl: tc.lens.cylD, axis: tc.lens.axisDeg, index: lens.index, front: lens.frontPowers[0],
-    ct: lens.ctMm, frontK: tc.lens.frontConic, backK: tc.lens.backConic, cr: tc.crMm, eye: tc.eye,
-    at: { x: tx, y: ty, z: tz }, ocX, ocY: ocY - drop, panto, wrap, tiltDropMm: drop,
+    sphere: lens.sphere, cyl: lens.cyl, axis: lens.axis, index: lens.index, front: lens.front,
+    ct: lens.ct, frontK: lens.frontK, backK: lens.backK, cr: p.cr, eye: p.eye,
+    at: n.target, ocX: p.ocX, ocY: p.ocY, panto: p.panto, wrap: p.wrap, tiltDropMm: p.tiltDrop,
   };
-  if (fix.status !== 'ok') {
-    if (args.switches.has('json')) return JSON.stringify({ visualPoint: null, eye: tc.eye, input, failure: fix.status, message: fix.message });
-    return `No line of sight found: ${fix.message}.\n\n${CAUTION}`;
+  if (n.status !== 'ok') {
+    if (args.switches.has('json')) return JSON.stringify({ visualPoint: null, eye: p.eye, input, failure: n.status, message: n.message });
+    return `No line of sight found: ${n.message}.\n\n${CAUTION}`;
   }
-  const r = fourAnswersPlaced(lens, pl, fix.cx, fix.cy, tc.eye);
   if (args.switches.has('json')) {
-    return JSON.stringify({ visualPoint: { x: fix.cx, y: fix.cy }, ...fourAnswersJson(r, input), iterations: fix.iterations });
+    return JSON.stringify({ visualPoint: n.visualPoint, ...fourAnswersJson(n.answers, input), iterations: n.iterations });
   }
   return [
-    `Target (${tx}, ${ty}, ${tz}) mm from the centre of rotation; ${tc.eye === 'R' ? 'right' : 'left'} eye.`,
-    `Visual point: ${fix.cx.toFixed(2)} mm x, ${fix.cy.toFixed(2)} mm y from the optical centre (found in ${fix.iterations} steps).`,
+    `Target (${tx}, ${ty}, ${tz}) mm from the centre of rotation; ${p.eye === 'R' ? 'right' : 'left'} eye.`,
+    `Visual point: ${n.visualPoint.x.toFixed(2)} mm x, ${n.visualPoint.y.toFixed(2)} mm y from the optical centre (found in ${n.iterations} steps).`,
     '',
-    answersTable(r, false),
+    answersTable(n.answers, false),
+    '',
+    powerText(n.answers),
     '',
     CAUTION,
   ].join('\n');

@@ -5,8 +5,9 @@
  * huge file is refused by its size. Errors name the file and say why (InputError).
  */
 import { closeSync, constants, fstatSync, openSync, readSync } from 'node:fs';
-import { type BinocularCase, CaseError, MAX_CASE_BYTES, readCaseBytes } from '../case/caseFile.ts';
+import { type BinocularCase, MAX_CASE_BYTES } from '../case/caseFile.ts';
 import { InputError } from '../case/input.ts';
+import { api, fileNames } from './api.ts';
 import { oneLine } from './output.ts';
 
 /** A size in words: "300 MB", "12 kB", "5 bytes". */
@@ -77,14 +78,8 @@ export function readFileCapped(path: string, maxBytes: number, field = oneLine(p
   }
 }
 
-/** A case file (docs/case-file.md) from disk, read as readFileCapped reads. */
+/** A case file (docs/case-file.md) from disk, read as readFileCapped reads and checked by the library. */
 export function loadCaseFile(path: string): BinocularCase {
   const name = oneLine(path);
-  const bytes = readFileCapped(path, MAX_CASE_BYTES, name, 'a case file');
-  try {
-    return readCaseBytes(bytes);
-  } catch (e) {
-    if (e instanceof CaseError) throw new InputError(`${name}: ${e.field}`, e.reason);
-    throw e;
-  }
+  return api.openCase(fileNames(name, 'case'), readFileCapped(path, MAX_CASE_BYTES, name, 'a case file'));
 }

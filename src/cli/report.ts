@@ -1,7 +1,7 @@
 /** `decentra report case.json --out summary.html`: the one-page clinician summary (docs/report.md). */
-import { evaluateFit } from '../case/fit.ts';
 import { InputError } from '../case/input.ts';
 import { summaryHtml } from '../report/summary.ts';
+import { CASE_FIELDS, api } from './api.ts';
 import { parseArgs } from './args.ts';
 import { loadCaseFile } from './fit.ts';
 import { oneLine, writeFileSafely } from './output.ts';
@@ -53,7 +53,7 @@ export function runReport(argv: readonly string[]): string {
   if (args.positional.length !== 1) throw new InputError('CASE.json', 'give exactly one case file');
   const date = args.values.has('date') ? readDay('--date', args.values.get('date')!) : today();
   const c = loadCaseFile(args.positional[0]!);
-  const page = summaryHtml(c, evaluateFit(c), { date });
+  const page = summaryHtml(c, api.evaluateCase(CASE_FIELDS, c), { date });
   const out = args.values.get('out');
   if (out === undefined) return page;
   writeFileSafely(out, page, '--out');

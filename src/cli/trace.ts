@@ -1,12 +1,12 @@
-/** `decentra trace`: the four answers at one visual point (docs/cli.md). */
+/** `decentra trace`: the four answers at one visual point (docs/cli.md), through the library (src/cli/api.ts). */
 import { existsSync } from 'node:fs';
 import { InputError } from '../case/input.ts';
-import { readEye, readTraceCase } from '../case/lensCase.ts';
-import { loadCaseFile } from './fit.ts';
-import { type FourAnswers, Placement, centrationPoint, fourAnswers, fourAnswersPlaced, isFailure } from '../optics/index.ts';
+import { readEye } from '../case/lensCase.ts';
 import { placementOf } from '../case/fit.ts';
+import { loadCaseFile } from './fit.ts';
+import { FLAGS, api, lensFlags } from './api.ts';
 import { LENS_FLAGS, flagOf, parseArgs, rawFields, strayArgument } from './args.ts';
-import { CAUTION, answersTable, fourAnswersJson, signed } from './format.ts';
+import { CAUTION, answersTable, fourAnswersJson, powerText, signed } from './format.ts';
 
 export const TRACE_HELP = `decentra trace: prism at one visual point of a thick lens, four ways.
 
@@ -56,8 +56,10 @@ export function runTrace(argv: readonly string[]): string {
   const args = parseArgs(argv, TRACE_FLAGS);
   if (args.switches.has('help')) return TRACE_HELP;
   if (args.positional.length > 1) throw strayArgument(args.positional[1]!);
-  let f = rawFields(args);
-  let fromCase: { placement: Placement; side: 'right' | 'left' } | null = null;
+  const f = rawFields(args);
+  let lensOptions: Record<string, unknown> = lensFlags(args);
+  const point: Record<string, unknown> = { x: args.values.get('x') ?? 0, y: args.values.get('y') ?? 0, cr: f.cr, eye: f.eye };
+  let side: 'right' | 'left' | null = null;
   if (args.positional.length === 1) {
     // a case file gives the lens of one eye (--eye, default R), its fitting distance and its
     // placement; the visual point starts at that eye's mark and --x/--y move it
@@ -66,62 +68,53 @@ export function runTrace(argv: readonly string[]): string {
     if (given.length && !existsSync(args.positional[0]!)) throw strayArgument(args.positional[0]!);
     if (given.length) throw new InputError(flagOf(given[0]!), 'comes from the case file; give only --eye, --x and --y with a case file');
     const c = loadCaseFile(args.positional[0]!);
-    const side = f.eye === undefined ? 'right' : readEye('--eye', f.eye) === 'R' ? 'right' : 'left';
+    side = f.eye === undefined ? 'right' : readEye('--eye', f.eye) === 'R' ? 'right' : 'left';
     const eyeDoc = c.doc[side] as Record<string, unknown>;
-    f = { eye: side === 'right' ? 'R' : 'L', cr: c[side].crMm };
-    for (const k of Object.values(LENS_FLAGS)) if (k !== 'eye' && k !== 'cr' && eyeDoc[k] !== undefined) f[k] = eyeDoc[k];
-    fromCase = { placement: placementOf(c, side), side };
+    lensOptions = {};
+    for (const k of Object.keys(eyeDoc)) if ((api.LENS_KEYS as readonly string[]).includes(k)) lensOptions[k] = eyeDoc[k];
+    const pl = placementOf(c, side).spec;
+    Object.assign(point, {
+      from: 'mark', cr: c[side].crMm, eye: side === 'right' ? 'R' : 'L', ocX: pl.ocXMm, ocY: pl.ocYMm, panto: pl.pantoDeg, wrap: pl.wrapDeg,
+    });
   }
-  f.x = args.values.get('x');
-  f.y = args.values.get('y');
-  const { tc, lens } = readTraceCase(f, flagOf);
-  let x = tc.xMm, y = tc.yMm;
-  let mark: { x: number; y: number } | null = null;
-  let r: FourAnswers;
-  if (fromCase) {
-    const m = centrationPoint(lens, fromCase.placement);
-    if (!m) throw new InputError('--eye', `the ${fromCase.side} eye's straight-ahead line misses its lens, so it has no mark`);
-    mark = m.lens;
-    x += m.lens.x; y += m.lens.y;
-    if (Math.hypot(x, y) > lens.radiusMm) {
-      throw new InputError(Math.abs(tc.xMm) >= Math.abs(tc.yMm) ? '--x' : '--y',
-        `moves the visual point to (${fmt2(x)}, ${fmt2(y)}) mm from the optical centre, outside the ${fmt2(2 * lens.radiusMm)} mm lens`);
-    }
-    r = fourAnswersPlaced(lens, fromCase.placement, x, y, tc.eye);
-  } else {
-    r = fourAnswers(lens, tc.crMm, x, y, tc.eye);
-  }
+  const lens = api.buildLens(FLAGS, lensOptions);
+  const r = api.prismAt(FLAGS, lens, point);
+  const { x, y } = r.point;
   const input = {
-    sphere: tc.lens.sphereD, cyl: tc.lens.cylD, axis: tc.lens.axisDeg, index: lens.index,
-    ...(tc.lens.materialId ? { material: tc.lens.materialId } : {}),
-    front: lens.frontPowers[0], ct: lens.ctMm, frontK: tc.lens.frontConic, backK: tc.lens.backConic,
-    ...(Number.isFinite(lens.radiusMm) ? { diameter: 2 * lens.radiusMm } : {}),
-    x, y, cr: tc.crMm, eye: tc.eye,
-    ...(mark ? { mark, placed: { ocX: fromCase!.placement.spec.ocXMm, ocY: fromCase!.placement.spec.ocYMm, panto: fromCase!.placement.spec.pantoDeg, wrap: fromCase!.placement.spec.wrapDeg } } : {}),
+    sphere: lens.sphere, cyl: lens.cyl, axis: lens.axis, index: lens.index,
+    ...(lens.material !== null ? { material: lens.material } : {}),
+    front: lens.front, ct: lens.ct, frontK: lens.frontK, backK: lens.backK,
+    ...(lens.diameter !== null ? { diameter: lens.diameter } : {}),
+    x, y, cr: r.cr, eye: r.eye,
+    ...(r.mark ? { mark: r.mark, placed: { ocX: point.ocX, ocY: point.ocY, panto: point.panto, wrap: point.wrap } } : {}),
   };
   if (args.switches.has('json')) return JSON.stringify(fourAnswersJson(r, input));
 
-  const rx = `${signed(tc.lens.sphereD)} / ${signed(tc.lens.cylD)} x ${tc.lens.axisDeg.toFixed(0)}`;
+  const moved = r.mark ? { x: x - r.mark.x, y: y - r.mark.y } : null;
+  const rx = `${signed(lens.sphere)} / ${signed(lens.cyl)} x ${lens.axis.toFixed(0)}`;
   const lines = [
-    `${tc.eye === 'R' ? 'Right' : 'Left'} eye, ${rx}; index ${lens.index.toFixed(3)}, front ${signed(lens.frontPowers[0])} D, ` +
-      `back ${signed(lens.backPowers[0])} / ${signed(lens.backPowers[1])} D, centre ${lens.ctMm.toFixed(2)} mm, CR ${tc.crMm.toFixed(1)} mm`,
+    `${r.eye === 'R' ? 'Right' : 'Left'} eye, ${rx}; index ${lens.index.toFixed(3)}, front ${signed(lens.front)} D, ` +
+      `back ${signed(lens.back[0])} / ${signed(lens.back[1])} D, centre ${lens.ct.toFixed(2)} mm, CR ${r.cr.toFixed(1)} mm`,
     `Visual point ${x.toFixed(2)} mm x, ${y.toFixed(2)} mm y from the optical centre ` +
       `(${Math.hypot(x, y).toFixed(2)} mm)` +
-      (mark ? `, the ${fromCase!.side} eye's mark at (${mark.x.toFixed(2)}, ${mark.y.toFixed(2)}) mm` +
-        (tc.xMm || tc.yMm ? ` moved by (${tc.xMm}, ${tc.yMm}) mm` : '') + '; the lens placed as the case places it' : ''),
+      (r.mark ? `, the ${side} eye's mark at (${r.mark.x.toFixed(2)}, ${r.mark.y.toFixed(2)}) mm` +
+        (moved!.x || moved!.y ? ` moved by (${fmtOffset(moved!.x)}, ${fmtOffset(moved!.y)}) mm` : '') + '; the lens placed as the case places it' : ''),
     '',
     answersTable(r),
     '',
-    r.error
-      ? `Prentice error: ${signed(r.error.prism, 3)} Δ` +
-        (r.error.percent === null ? '' : ` (${signed(r.error.percent, 1)} % of the exact value)`)
-      : `Prentice error: not available (${isFailure(r.exact) ? r.exact.message : ''})`,
+    r.prenticeError
+      ? `Prentice error: ${signed(r.prenticeError.prism, 3)} Δ` +
+        (r.prenticeError.percent === null ? '' : ` (${signed(r.prenticeError.percent, 1)} % of the exact value)`)
+      : `Prentice error: not available (${'failure' in r.exact ? r.exact.message : ''})`,
+    '',
+    powerText(r),
     '',
     CAUTION,
   ];
   return lines.join('\n');
 }
 
-function fmt2(v: number): string {
-  return v.toFixed(2);
+/** An offset as typed in mm, without the float noise of the sum it was taken from. */
+function fmtOffset(v: number): string {
+  return String(Math.round(v * 1e9) / 1e9);
 }

@@ -54,6 +54,10 @@ describe('prescribed prism', () => {
       fc.double({ min: -3, max: 3, noNaN: true }), fc.double({ min: -3, max: 3, noNaN: true }),
       fc.double({ min: 0, max: 15, noNaN: true }), fc.double({ min: 0, max: 15, noNaN: true }),
       (s, px, py, panto, wrap) => {
+        // a prism the lens can give inside its 30 mm radius: by Prentice's rule (Prentice 1890) at
+        // most 20 mm of decentration in its weakest meridian (sphere or sphere - 1 D); beyond that,
+        // no point (null) is the right answer, and this property does not apply
+        fc.pre((10 * Math.hypot(px, py)) / Math.min(Math.abs(s), Math.abs(s - 1)) <= 20);
         const lens = makeLens({ sphereD: s, cylD: -1, axisDeg: 30, index: 1.6, frontD: Math.max(1, s + 4), ctMm: s > 0 ? 3 + 1.2 * s : 2, diameterMm: 60 });
         const pl = new Placement({ ocXMm: 0, ocYMm: 0, crDistanceMm: 27, pantoDeg: panto, wrapDeg: wrap, eye: 'R' });
         const c = focimeterPointForPrism(lens, pl, px, py);

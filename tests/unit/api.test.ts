@@ -145,7 +145,7 @@ console.log(JSON.stringify(out));
     }));
     writeFileSync(join(scratch, 'consumer.ts'), `
 import { DecentraError, buildLens, prismAt, limits, near, fitCase, readCaseFile, writeCaseFile, importFhir, exportFhir } from 'decentra';
-import type { Answers, Failure, FitSummary, Lens, LensOptions, LimitResult, NearResult, Prism } from 'decentra';
+import type { Answers, Failure, FitSummary, Lens, LensOptions, LimitResult, NearResult, Power, Prism } from 'decentra';
 const options: LensOptions = { sphere: 8, index: 1.5, ct: 8, diameter: 50 };
 const lens: Lens = buildLens(options);
 const a: Answers = prismAt(lens, { x: 10, y: 0, eye: 'R' });
@@ -154,6 +154,11 @@ const size: number = 'failure' in exact ? 0 : exact.magnitude;
 const l: LimitResult = limits(lens, { maxPrism: 1, direction: 'nasal' });
 const n: NearResult = near(lens, { at: { x: 0, y: -40, z: 400 } });
 const step: number = n.status === 'ok' ? n.visualPoint.y : 0;
+const drop: number = near(lens, { at: { x: 0, y: -40, z: 400 }, panto: 8, tiltDrop: 'rule-of-thumb' }).placed.tiltDrop;
+const atMark: Answers = prismAt(lens, { x: 0, y: -2, from: 'mark', ocX: 2, panto: 8 });
+const markX: number = atMark.mark ? atMark.mark.x : 0;
+const power: Power | Failure = atMark.power;
+const sph: number = 'failure' in power ? 0 : power.sphere;
 const f: (t: string) => FitSummary = (t) => fitCase(readCaseFile(t));
 const w: (t: string) => string = (t) => writeCaseFile(importFhir(t, { pd: { right: 31, left: 32 } }).case);
 const e: object = exportFhir(readCaseFile('{}')).resource;
@@ -167,13 +172,15 @@ buildLens({ cyl: 1 });
 prismAt(lens, { x: 0, y: 0, eye: 'middle' });
 // @ts-expect-error a lens summary is read-only
 lens.index = 1.6;
-export { size, l, step, f, w, e, why };
+// @ts-expect-error a tilt drop is one of three rules
+near(lens, { at: { x: 0, y: 0, z: 400 }, tiltDrop: 'sideways' });
+export { size, l, step, f, w, e, why, drop, markX, sph };
 `);
     const tsc = join(ROOT, 'node_modules/typescript/bin/tsc');
     const r = spawnSync(process.execPath, [tsc, '-p', join(scratch, 'tsconfig.json')], { cwd: scratch, encoding: 'utf8', timeout: 120_000 });
     expect(r.stdout + r.stderr).toBe('');
     expect(r.status).toBe(0);
-  });
+  }, 120_000);
 });
 
 // The same API in-process (src/api/index.ts), for the calls the scratch project does not run.

@@ -74,7 +74,7 @@ export function planBatch(req: BatchRequest): BatchPlan {
       throw new InputError('decentrations', `powers x decentrations give ${powers.length * decs.length} rows; the app makes at most ${MAX_ROWS} (the command line has no limit)`);
     }
   } else {
-    maxPrism = inRange('tolerance', readNumber('tolerance', req.maxPrism, 'prism'), { min: 0, max: 50, above: true, unit: 'Δ' });
+    maxPrism = inRange('tolerance', readNumber('tolerance', req.maxPrism, 'prism'), LIMITS.maxPrism);
   }
   const dirDeg = req.dir.trim() === '' ? 0 : readNumber('direction', req.dir, 'angle');
   const cr = f.cr === undefined || f.cr === '' ? 27 : inRange(flagOf('cr'), readNumber(flagOf('cr'), f.cr, 'length'), LIMITS.cr);

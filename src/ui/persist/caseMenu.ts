@@ -4,6 +4,7 @@
  * (set(doc, origin)), which checks the document whole first; nothing here edits a case.
  * All text from cases and files is set with textContent.
  */
+import { DecentraError } from '../../api/index.ts';
 import { type CaseDocument, CaseError } from '../../case/caseFile.ts';
 import { InputError } from '../../case/input.ts';
 import type { CaseStore } from '../caseStore.ts';
@@ -246,7 +247,7 @@ export class CaseMenu {
       if (print) printSummary(this.o.store.get());
       else openSummary(this.o.store.get());
     } catch (e) {
-      if (!(e instanceof InputError)) throw e;
+      if (!(e instanceof InputError) && !(e instanceof DecentraError)) throw e;
       this.o.notify('error', `The summary cannot be made: ${e.message}.`, 'case');
     }
   }
@@ -262,9 +263,11 @@ export class CaseMenu {
         this.o.notify('info', `Opened ${f.name}. The case before is under Case › Recent cases.`, 'case');
       }
     } catch (e) {
-      const reason = e instanceof InputError ? e.message : `could not be read (${(e as Error).message})`;
+      // a refusal names the field or the resource's path (a DecentraError from the library, src/ui/persist/files.ts)
+      const refused = e instanceof InputError || e instanceof DecentraError;
+      const reason = refused ? e.message : `could not be read (${(e as Error).message})`;
       this.o.notify('error', `${f.name} was not opened: ${reason}. Nothing was changed.`, 'case');
-      if (!(e instanceof CaseError) && !(e instanceof InputError)) console.warn(e);
+      if (!(e instanceof CaseError) && !refused) console.warn(e);
     }
   }
 

@@ -1,15 +1,23 @@
 /**
- * Files in and out of the page: a case saved as a .decentra.json download, a file read as
- * bytes and checked whole by readCaseBytes before anything is applied (or, if it is a FHIR
- * VisionPrescription, imported by src/case/fhir.ts with its assumptions listed), and the clinician
+ * Files in and out of the page, through the library (src/api/core.ts, docs/api.md): a case
+ * saved as a .decentra.json download (writeCaseFile), a file read as bytes and checked whole
+ * (readCaseFile) before anything is applied (or, if it is a FHIR VisionPrescription, imported
+ * by importFhir with its assumptions listed), and the clinician
  * summary opened in a new tab from a Blob URL, or printed. The summary page is never put into
  * this page's document: printing loads it, unchanged and still script-free under its own
  * Content-Security-Policy, into a hidden frame and asks that frame's window to print.
  */
-import { type BinocularCase, CaseError, readCase, readCaseBytes, writeCase } from '../../case/caseFile.ts';
-import { MAX_FHIR_BYTES, importVisionPrescriptionText } from '../../case/fhir.ts';
-import { evaluateFit } from '../../case/fit.ts';
+import type { Names } from '../../api/core.ts';
+import * as api from '../../api/core.ts';
+import { type BinocularCase, CaseError } from '../../case/caseFile.ts';
+import { MAX_FHIR_BYTES } from '../../case/fhir.ts';
 import { summaryHtml } from '../../report/summary.ts';
+
+/**
+ * The library's names (src/api/core.ts, docs/api.md) for what a file held: the path in the
+ * file ('right.sphere', 'lensSpecification.0.eye'), as a refusal has always named it here.
+ */
+const IN_FILE: Names = { text: false, name: (path) => path.replace(/^(case|resource)\./, '') };
 
 /** Files larger than this are refused without being read at all (a case is a few kB). */
 const READ_LIMIT_BYTES = 32 * 1024 * 1024;
@@ -36,7 +44,7 @@ export function download(text: string, name: string, type: string): void {
 
 export function saveCaseFile(c: BinocularCase): string {
   const name = caseFileName(c.doc.title);
-  download(writeCase(c.doc), name, 'application/json');
+  download(api.writeCaseFile(IN_FILE, c.doc), name, 'application/json');
   return name;
 }
 
@@ -56,7 +64,7 @@ function fhirText(bytes: Uint8Array): string | null {
     const raw: unknown = JSON.parse(text.replace(/^\uFEFF/, ''));
     return typeof raw === 'object' && raw !== null && !Array.isArray(raw) && Object.hasOwn(raw, 'resourceType') ? text : null;
   } catch {
-    return null; // not UTF-8 or not JSON: readCaseBytes says so
+    return null; // not UTF-8 or not JSON: reading it as a case file says so
   }
 }
 
@@ -66,10 +74,10 @@ function appNote(note: string): string {
 }
 
 /**
- * Read a chosen file: a Decentra case file (checked whole by readCaseBytes), or a FHIR
- * VisionPrescription (R4 or R5, alone or in a Bundle; docs/fhir.md) imported into a case with
- * the same rules as `decentra import`. Throws a CaseError naming the field or the resource's
- * path; nothing is applied.
+ * Read a chosen file: a Decentra case file (checked whole), or a FHIR VisionPrescription (R4
+ * or R5, alone or in a Bundle; docs/fhir.md) imported into a case with the same rules as
+ * `decentra import`. Throws a CaseError (a file too large to read) or a DecentraError naming
+ * the field or the resource's path; nothing is applied.
  */
 export async function readCaseOrPrescriptionFile(file: File): Promise<OpenedFile> {
   if (file.size > READ_LIMIT_BYTES) {
@@ -77,12 +85,12 @@ export async function readCaseOrPrescriptionFile(file: File): Promise<OpenedFile
   }
   const bytes = new Uint8Array(await file.arrayBuffer());
   const text = fhirText(bytes);
-  if (text === null) return { kind: 'case', case: readCaseBytes(bytes), notes: [] };
-  const imported = importVisionPrescriptionText(text);
+  if (text === null) return { kind: 'case', case: api.openCase(IN_FILE, bytes), notes: [] };
+  const imported = api.importFhir(IN_FILE, text);
   const notes = imported.notes.map(appNote);
   // the assumptions stay with the case (its note, printed on the clinician summary), not only in a passing notice
   const note = `Imported from an HL7 FHIR VisionPrescription. Assumed: ${notes.join('; ')}.`.slice(0, 4000);
-  return { kind: 'fhir', case: readCase({ ...imported.doc, note }), notes };
+  return { kind: 'fhir', case: api.openCase(IN_FILE, { ...imported.case, note }), notes };
 }
 
 let summaryUrl: string | null = null;
@@ -90,10 +98,10 @@ let summaryUrl: string | null = null;
 /**
  * Open the clinician summary of a case in a new tab. The page is made by summaryHtml (text
  * escaped there, no script, its own Content-Security-Policy) and handed over as a Blob URL.
- * Throws an InputError naming the field if the case cannot be evaluated (an impossible lens).
+ * Throws a DecentraError naming the field if the case cannot be evaluated (an impossible lens).
  */
 export function openSummary(c: BinocularCase, date = new Date()): void {
-  const page = summaryHtml(c, evaluateFit(c), { date });
+  const page = summaryHtml(c, api.evaluateCase(IN_FILE, c), { date });
   if (summaryUrl) URL.revokeObjectURL(summaryUrl);
   summaryUrl = URL.createObjectURL(new Blob([page], { type: 'text/html' }));
   const a = document.createElement('a');
@@ -113,11 +121,11 @@ let printUrl: string | null = null;
  * Print the clinician summary of a case: the same page as openSummary, loaded from a Blob URL
  * into a hidden frame whose window is asked to print once it has loaded (the browser's print
  * dialog opens; the page itself runs no script). The frame stays until the next print, so
- * that the dialog can still read it. Returns the frame. Throws an InputError naming the field
+ * that the dialog can still read it. Returns the frame. Throws a DecentraError naming the field
  * if the case cannot be evaluated.
  */
 export function printSummary(c: BinocularCase, date = new Date()): HTMLIFrameElement {
-  const page = summaryHtml(c, evaluateFit(c), { date });
+  const page = summaryHtml(c, api.evaluateCase(IN_FILE, c), { date });
   printFrame?.remove();
   if (printUrl) URL.revokeObjectURL(printUrl);
   printUrl = URL.createObjectURL(new Blob([page], { type: 'text/html' }));

@@ -1,6 +1,7 @@
 /**
- * Engine benchmark: exact line-of-sight traces per second (spherical and toric lens) and the
- * time of a 201 x 201 prism map. Run with `npm run bench` (human-readable) or
+ * Engine benchmark: exact line-of-sight traces per second (spherical and toric lens), the
+ * time of a 201 x 201 prism map, pencils per second (the power at the visual point) and the
+ * time of a 201 x 201 power map. Run with `npm run bench` (human-readable) or
  * `npm run bench -- --json` (one JSON object on stdout, nothing else).
  *
  * Method: every figure is the median of RUNS timed runs after WARMUP or more untimed runs (see warmUp), in this
@@ -24,8 +25,10 @@
 import os from 'node:os';
 import { PerformanceObserver, constants as perfConstants, performance } from 'node:perf_hooks';
 import {
-  Lens, LineTrace, RayStatus, allocatePrismMap, fillPrismMap, frontForPower, lineOfSight, traceLineOfSight,
+  Lens, LineTrace, PencilPower, Placement, RayStatus, allocatePowerMap, allocatePrismMap, fillPowerMap, fillPrismMap,
+  frontForPower, lineOfSight, pencilPower, pencilSetup, placedLine, traceLineOfSight,
 } from '../src/optics/index.ts';
+import { computePowerMaps } from '../src/worker/mapCompute.ts';
 import { type RangeInput, clearRangeCache, rangeRows, readRangeSpec } from '../src/case/range.ts';
 
 const json = process.argv.includes('--json');
@@ -217,10 +220,102 @@ async function mapMs(lens: Lens): Promise<Rate> {
   return summarise(wall, cpu, shares);
 }
 
+// The power at the visual point (src/optics/power.ts): pencils per second through pencilPower
+// (the chief ray by placedLine, then the pencil's four rays), one reused LineTrace and
+// PencilPower, on the spherical lens; and a 201 x 201 power map (mean and astigmatic error)
+// by fillPowerMap, and the same maps as the app's worker returns them (computePowerMaps: the
+// engine's map, colours and contours).
+const flat = new Placement({ ocXMm: 0, ocYMm: 0, crDistanceMm: CR_MM, pantoDeg: 0, wrapDeg: 0, eye: 'R' });
+const pencil = new PencilPower();
+function pencilLoop(lens: Lens, n: number): number {
+  const setup = powerSetup;
+  let acc = 0;
+  for (let i = 0; i < n; i++) {
+    const j = i & (POINTS - 1);
+    trace.bx = xs[j]!; trace.by = ys[j]!;
+    if (placedLine(lens, flat, trace) === RayStatus.ok && pencilPower(lens, trace, setup, pencil) === RayStatus.ok) acc += pencil.meanError;
+  }
+  return acc;
+}
+const powerSetup = pencilSetup(spherical, flat, null);
+
+async function pencilsPerSecond(lens: Lens): Promise<Rate> {
+  for (let i = 0; i < 2 * SHORT_CALLS; i++) sink += pencilLoop(lens, 1);
+  for (let i = 0; i < SHORT_CALLS; i++) sink += pencilLoop(lens, POINTS);
+  await new Promise((r) => setTimeout(r, 50));
+  let n = POINTS;
+  for (;;) {
+    const t0 = performance.now();
+    sink += pencilLoop(lens, n);
+    const dt = performance.now() - t0;
+    if (dt > RUN_MS / 4) {
+      n = Math.max(POINTS, Math.round((n * RUN_MS) / dt / POINTS) * POINTS);
+      break;
+    }
+    n *= 4;
+  }
+  await warmUp(() => { sink += pencilLoop(lens, n); });
+  const wall: number[] = [], cpu: number[] = [], shares: number[] = [];
+  for (let i = 0; i < RUNS; i++) {
+    const t = timed('power', () => { sink += pencilLoop(lens, n); });
+    wall.push(n / (t.wallMs / 1000));
+    cpu.push(n / (t.cpuMs / 1000));
+    shares.push(t.cpuMs / t.wallMs);
+  }
+  return summarise(wall, cpu, shares);
+}
+
+async function powerMapMs(lens: Lens): Promise<Rate> {
+  const map = allocatePowerMap({ size: MAP_SIZE, halfWidthMm: MAP_HALF_WIDTH_MM });
+  const setup = pencilSetup(lens, flat, null);
+  fillPowerMap(lens, flat, setup, map);
+  let bad = 0;
+  for (let i = 0; i < map.status.length; i++) if (map.status[i] !== RayStatus.ok) bad++;
+  if (bad > 0) process.stderr.write(`warning: ${bad} power map points did not succeed\n`);
+  for (let i = 0; i < SHORT_CALLS; i++) fillPowerMap(lens, flat, setup, allocatePowerMap({ size: 9, halfWidthMm: MAP_HALF_WIDTH_MM }));
+  await warmUp(() => fillPowerMap(lens, flat, setup, map));
+  const wall: number[] = [], cpu: number[] = [], shares: number[] = [];
+  for (let i = 0; i < RUNS; i++) {
+    const t = timed('powerMap', () => fillPowerMap(lens, flat, setup, map));
+    wall.push(t.wallMs);
+    cpu.push(t.cpuMs);
+    shares.push(t.cpuMs / t.wallMs);
+    sink += map.meanError[(i * 7919) % map.meanError.length]!;
+  }
+  return summarise(wall, cpu, shares);
+}
+
+/**
+ * The worker's power maps: computePowerMaps (src/worker/mapCompute.ts) as the app's worker
+ * runs it after the prism map, 201 x 201 over the lens's aperture (the engine's map, colours
+ * and contours), with a new lens each run so that the engine's map is never reused. Not part
+ * of the allocation check (colours and contours allocate their arrays); medians of RUNS runs
+ * after WARMUP.
+ */
+function workerPowerMs(): Rate {
+  const spec = spherical.spec;
+  const wall: number[] = [], cpu: number[] = [], shares: number[] = [];
+  for (let i = 0; i < WARMUP + RUNS; i++) {
+    const req = { id: i, spec: { ...spec, ctMm: spec.ctMm + i * 1e-6 }, crMm: CR_MM, eye: 'R' as const, size: MAP_SIZE, quantity: 'exact' as const, power: true };
+    const t = timed('powerWorker', () => {
+      const res = computePowerMaps(req);
+      if (res.cached) throw new Error('the worker benchmark reused the engine\'s map');
+    });
+    if (i < WARMUP) continue;
+    wall.push(t.wallMs);
+    cpu.push(t.cpuMs);
+    shares.push(t.cpuMs / t.wallMs);
+  }
+  return summarise(wall, cpu, shares);
+}
+
 const sph = await tracesPerSecond(spherical, 'spherical');
 const tor = await tracesPerSecond(toric, 'toric (front)');
 const torBack = json ? null : await tracesPerSecond(toricBack, 'toric (back)');
 const map = await mapMs(spherical);
+const power = await pencilsPerSecond(spherical);
+const powerMap = await powerMapMs(spherical);
+const powerWorker = workerPowerMs();
 
 // The designer's range (src/case/range.ts, docs/range.md): the issue's full range (sphere
 // -20..+20 step 0.25, cylinder 0..-4 step 0.5, 8 directions, 3 tolerances: 34 776 rows) and
@@ -248,11 +343,13 @@ await new Promise((r) => setTimeout(r, 50));
 gcObserver.disconnect();
 const gcCounts = {
   spherical: minorGcsIn('spherical'), toric: minorGcsIn('toric (front)'), toricBack: minorGcsIn('toric (back)'), map: minorGcsIn('map'),
+  power: minorGcsIn('power'), powerMap: minorGcsIn('powerMap'),
 };
-const gcTotal = gcCounts.spherical + gcCounts.toric + gcCounts.toricBack + gcCounts.map;
+const gcTotal = gcCounts.spherical + gcCounts.toric + gcCounts.toricBack + gcCounts.map + gcCounts.power + gcCounts.powerMap;
 const gcNote =
   `${gcTotal} minor garbage collections fell inside the timed runs (spherical ${gcCounts.spherical}, ` +
-  `toric ${gcCounts.toric}${json ? '' : `, toric on back ${gcCounts.toricBack}`}, map ${gcCounts.map}); ` +
+  `toric ${gcCounts.toric}${json ? '' : `, toric on back ${gcCounts.toricBack}`}, map ${gcCounts.map}, ` +
+  `pencils ${gcCounts.power}, power map ${gcCounts.powerMap}); ` +
   'the per-ray path should allocate nothing, so expect 0';
 
 const machine = {
@@ -264,7 +361,7 @@ const machine = {
 
 // below this share of wall-clock time on a core, other processes disturbed the measurement
 const BUSY_SHARE = 0.9;
-const minShare = Math.min(sph.share, tor.share, map.share, torBack?.share ?? 1);
+const minShare = Math.min(sph.share, tor.share, map.share, torBack?.share ?? 1, power.share, powerMap.share);
 const busyNote =
   `the machine was busy: this process had a core only ${Math.round(100 * minShare)} % of the time in some runs, ` +
   'so the wall-clock figures are low; rerun on a quiet machine or compare the CPU-time figures';
@@ -277,6 +374,9 @@ if (json) {
       map201Ms: Math.round(map.median * 1000) / 1000,
       rangeMs: Math.round(range.median),
       rangeAppMs: Math.round(rangeApp.median),
+      powerPerSecond: Math.round(power.median),
+      powerMapMs: Math.round(powerMap.median * 1000) / 1000,
+      powerMapWorkerMs: Math.round(powerWorker.median * 1000) / 1000,
       gcInTimedRuns: gcTotal,
       machine,
     })}\n`,
@@ -296,13 +396,16 @@ if (json) {
   console.log(line('exact traces, toric, cylinder on front', tor, m, '   goal >= 1 M/s'));
   if (torBack) console.log(line('exact traces, toric, cylinder on back', torBack, m, '   (default form)'));
   console.log(line(`prism map ${MAP_SIZE} x ${MAP_SIZE} (±${MAP_HALF_WIDTH_MM} mm)`, map, ms, ''));
+  console.log(line('pencils (power at the visual point)', power, m, ''));
+  console.log(line(`power map ${MAP_SIZE} x ${MAP_SIZE} (±${MAP_HALF_WIDTH_MM} mm), engine`, powerMap, ms, ''));
+  console.log(line(`power maps ${MAP_SIZE} x ${MAP_SIZE}, as the worker returns them`, powerWorker, ms, '   goal < 100 ms'));
   console.log(line(`range, full (${range.rows} rows, cold)`, range, ms, '   goal < 2000 ms (here one thread)'));
   console.log(line(`range, app's typical (${rangeApp.rows} rows, cold)`, rangeApp, ms, '   goal < 1000 ms'));
   console.log('');
   console.log(`lenses: -4.00 D and -2.00 / -1.50 x 30 (tyre toric), index 1.6, front by the Vogel rule, ct 2 mm, ` +
     `${DIAMETER_MM} mm round, CR ${CR_MM} mm;`);
   console.log(`traces cycle through ${POINTS} visual points within ${APERTURE_MM} mm of the optical centre; ` +
-    'the map uses the spherical lens');
+    'the maps and the pencils use the spherical lens');
   console.log(`allocation check: ${gcNote}`);
   if (minShare < BUSY_SHARE) console.log(`note: ${busyNote}`);
   if (gcTotal > 0) console.log('allocation check FAILED: something on the per-ray path allocates (docs/performance.md)');

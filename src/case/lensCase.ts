@@ -60,6 +60,10 @@ export const DEFAULTS = {
   minCentreMm: 2.0,
   xMm: 0,
   yMm: 0,
+  /** best forms (decentra form, the app's point-focal control): the eye rotation, and a
+   *  common reading distance from the vertex sphere (common practice, no source) */
+  formRotationDeg: 30,
+  formNearMm: 400,
 } as const;
 
 /** Field keys shared by the CLI and the UI. */
@@ -93,6 +97,9 @@ export const LIMITS = {
   wrap: { min: -10, max: 35, unit: 'degrees' },
   /** a prescribed prism, per entry */
   prism: { min: 0, max: 20, unit: 'Δ' },
+  /** best forms: the eye rotation and the near target's distance from the vertex sphere */
+  formRotation: { min: 0, max: 60, above: true, unit: 'degrees' },
+  formNear: { min: 100, max: 2000, unit: 'mm' },
   /** a bound on the pencil's mean or astigmatic error for decentration limits (docs/range.md) */
   maxPowerError: { min: 0, max: 10, above: true, unit: 'D' },
   /** a prism tolerance for decentration limits (docs/range.md) */

@@ -4,17 +4,14 @@
  * error at an eye rotation, for a distant target and for a near one.
  */
 import { InputError, inRange, readNumber } from '../case/input.ts';
-import { LIMITS, buildLens, readLensForm } from '../case/lensCase.ts';
+import { DEFAULTS, LIMITS, buildLens, readLensForm } from '../case/lensCase.ts';
 import { fixed } from '../case/numberText.ts';
 import { type FormQuery, formFronts } from '../optics/index.ts';
 import { flagOf, parseArgs, rawFields, strayArgument } from './args.ts';
 import { CAUTION, table } from './format.ts';
 
-/** A common reading distance (common practice, no source), mm from the vertex sphere. */
-export const DEFAULT_NEAR_MM = 400;
-export const DEFAULT_ROTATION_DEG = 30;
-const ROTATION = { min: 0, max: 60, above: true, unit: 'degrees' } as const;
-const NEAR = { min: 100, max: 2000, unit: 'mm' } as const;
+const DEFAULT_NEAR_MM = DEFAULTS.formNearMm;
+const DEFAULT_ROTATION_DEG = DEFAULTS.formRotationDeg;
 
 export const FORM_HELP = `decentra form: the front curves that keep a spherical lens free of oblique errors.
 
@@ -56,8 +53,8 @@ export function runForm(argv: readonly string[]): string {
     return v === undefined ? def : inRange(`--${flag}`, readNumber(`--${flag}`, v, r.unit === 'mm' ? 'length' : 'angle'), r);
   };
   const crMm = num('cr', 27, LIMITS.cr);
-  const rotationDeg = num('rotation', DEFAULT_ROTATION_DEG, ROTATION);
-  const nearMm = num('near', DEFAULT_NEAR_MM, NEAR);
+  const rotationDeg = num('rotation', DEFAULT_ROTATION_DEG, LIMITS.formRotation);
+  const nearMm = num('near', DEFAULT_NEAR_MM, LIMITS.formNear);
   if (!(ctMm > 0)) throw new InputError('--ct', 'must be above 0 mm');
   const base = { sphereD: form.sphereD, index: form.index, ctMm, crMm, rotationDeg };
   const find = (near: number | null, goal: FormQuery['goal']): number[] => formFronts({ ...base, nearMm: near, goal });

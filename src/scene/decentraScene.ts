@@ -10,6 +10,7 @@ import type { FourAnswers, Lens } from '../optics/index.ts';
 import { EyeModel, GLOBE_RADIUS_MM } from './eyeModel.ts';
 import { LensMesh } from './lensMesh.ts';
 import { PointMarkers, Ruler, makeLabel } from './markers.ts';
+import { type PencilGeometry, PencilView } from './pencil.ts';
 import { COLORS } from './palette.ts';
 import { RayTube } from './rayTube.ts';
 import { type RayPaths, allocateRayPaths, buildRayPaths } from './rayPaths.ts';
@@ -21,12 +22,16 @@ export interface SceneInput {
   answers: FourAnswers;
   /** words for the labels, already formatted with units */
   labels: { exact: string; prentice: string; paraxial: string; focimeter: string };
+  /** the pencil along the exact line of sight and its focal lines (null where it fails) */
+  pencil?: PencilGeometry | null;
 }
 
 export interface SceneDisplay {
   mag: number;
   labels: boolean;
   focimeterRay: boolean;
+  /** draw the pencil near the eye with its focal lines */
+  pencil?: boolean;
 }
 
 const OBJECT_LENGTH_MM = 50;
@@ -48,6 +53,7 @@ class Content {
   readonly paraxial: RayTube;
   readonly undeviated: RayTube;
   readonly focimeter: RayTube;
+  readonly pencil = new PencilView();
   readonly rayLabels: Record<'exact' | 'prentice' | 'paraxial' | 'focimeter', CSS2DObject>;
 
   constructor() {
@@ -72,6 +78,7 @@ class Content {
       this.lens.group, this.eye.group, this.markers.group, this.xRuler.group, this.zRuler.group,
       this.axis.mesh, this.eyeSide.mesh, this.glass.mesh, this.exactObj.mesh, this.prentice.mesh,
       this.paraxial.mesh, this.undeviated.mesh, this.focimeter.mesh, ...Object.values(this.rayLabels),
+      this.pencil.group,
     );
   }
 
@@ -80,6 +87,7 @@ class Content {
     this.lens.dispose();
     this.eye.dispose();
     this.markers.dispose();
+    this.pencil.dispose();
     this.xRuler.dispose();
     this.zRuler.dispose();
     for (const t of [this.axis, this.eyeSide, this.glass, this.exactObj, this.prentice, this.paraxial, this.undeviated, this.focimeter]) {
@@ -170,6 +178,7 @@ export class DecentraScene {
     L.focimeter.visible = display.labels && display.focimeterRay && p.focimeterOk;
     c.markers.setLabelsVisible(display.labels);
     c.eye.setLabelsVisible(display.labels);
+    const pencilZ = c.pencil.update(input.pencil ?? null, display.pencil === true, display.labels);
 
     // rulers: x across the lens in the back-vertex plane, z along its side; they meet in a corner
     const yRule = -(r + 7);
@@ -177,7 +186,8 @@ export class DecentraScene {
     c.xRuler.update(-xEnd, xEnd, yRule, 0, 'mm (x)');
     c.zRuler.update(-Math.ceil((crMm + GLOBE_RADIUS_MM) / 10) * 10, Math.ceil(zFront / 10) * 10 + 10, yRule, -xEnd - 5, 'mm (z)');
     // frame the eye, the lens and the object-side rays with room for their labels
-    const zRight = zEnd + 30, zLeft = -crMm - GLOBE_RADIUS_MM;
+    const zRight = Math.max(zEnd + 30, pencilZ ? pencilZ.zMax + 30 : -Infinity);
+    const zLeft = Math.min(-crMm - GLOBE_RADIUS_MM, pencilZ ? pencilZ.zMin : Infinity);
     this.viewer.setFrame(_v.set(0, 0, (zRight + zLeft) / 2), 1.05 * Math.max(2 * r + 20, zRight - zLeft), 2 * r + 26);
     this.viewer.requestRender();
   }
@@ -190,6 +200,11 @@ export class DecentraScene {
 
   setView(name: ViewName): void {
     this.viewer.setView(name);
+  }
+
+  /** Frame the current preset view again (what is drawn grew: the pencil was switched on). */
+  reframe(): void {
+    this.viewer.setView(this.rulerView);
   }
 
   /** A ruler seen end-on is only clutter: show the ones that read in this view. */

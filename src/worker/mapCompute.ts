@@ -1,12 +1,16 @@
 /**
- * The prism map's work, apart from the worker wiring so it can be timed and tested in Node:
- * trace the whole aperture with the engine (fillPrismMap), colour it, and draw contour
- * lines (d3-contour). The map buffers are reused between calls of the same size.
+ * The maps' work, apart from the worker wiring so it can be timed and tested in Node: trace
+ * the whole aperture with the engine (fillPrismMap for the prism map, computeMap;
+ * fillPowerMap for the two power maps, computePowerMaps), colour it, and draw contour lines
+ * (d3-contour). The engine's map buffers are reused between calls of the same size.
  */
 import { contours } from 'd3-contour';
-import { type PrismMap, RayStatus, allocatePrismMap, fillPrismMap, makeLens, prenticeError } from '../optics/index.ts';
+import {
+  type PowerMap, type PrismMap, Placement, RayStatus, allocatePowerMap, allocatePrismMap, fillPowerMap,
+  fillPrismMap, makeLens, pencilSetup, prenticeError,
+} from '../optics/index.ts';
 import { type ScaleKind, colourAt, niceLevels } from './colourScale.ts';
-import type { MapContour, MapRequest, MapResult } from './mapProtocol.ts';
+import type { MapContour, MapLayer, MapRequest, MapResult, PowerResult } from './mapProtocol.ts';
 
 let map: PrismMap | null = null;
 
@@ -19,9 +23,64 @@ export function computeMap(req: MapRequest): MapResult {
   map.halfWidthMm = hw;
   fillPrismMap(lens, req.crMm, map);
 
-  // values in image order: image row 0 is the top of the lens (y = +hw), map row 0 the bottom
   const values = new Float32Array(n * n);
   const valid = new Uint8Array(n * n);
+  const exact = req.quantity === 'exact';
+  const px = map.px, py = map.py, prentice = map.prentice;
+  const layer = colourLayer(n, hw, map.status, values, valid, exact ? 'magnitude' : 'signed', (i) => {
+    const m = Math.sqrt(px[i]! * px[i]! + py[i]! * py[i]!);
+    return exact ? m : prenticeError(prentice[i]!, m).percent ?? NaN;
+  });
+  return { id: req.id, ok: true, kind: 'prism', size: n, halfWidthMm: hw, quantity: req.quantity, ...layer, workerMs: performance.now() - t0 };
+}
+
+/**
+ * The power maps (mean error and astigmatic error) of the pencil along each line of sight,
+ * distant target, by the engine's fillPowerMap for an untilted lens with the centre of
+ * rotation on its axis, as the prism map is. The engine's map is kept for the next request:
+ * a new prism quantity, or the same lens again, reuses it.
+ */
+let power: { key: string; map: PowerMap } | null = null;
+
+/** Below half the panel's last digit (0.01 D), a mean error counts as zero for the colour scale. */
+const POWER_ZERO_D = 0.005;
+
+export function computePowerMaps(req: MapRequest): PowerResult {
+  const t0 = performance.now();
+  const lens = makeLens(req.spec);
+  const hw = lens.radiusMm;
+  const n = req.size;
+  const key = JSON.stringify([req.spec, req.crMm, req.eye, n]);
+  const cached = power !== null && power.key === key;
+  if (!cached) {
+    const map = power && power.map.size === n ? power.map : allocatePowerMap({ size: n, halfWidthMm: hw });
+    map.halfWidthMm = hw;
+    const pl = new Placement({ ocXMm: 0, ocYMm: 0, crDistanceMm: req.crMm, pantoDeg: 0, wrapDeg: 0, eye: req.eye });
+    fillPowerMap(lens, pl, pencilSetup(lens, pl, null), map);
+    power = { key, map };
+  }
+  const m = power!.map;
+  const fillMs = performance.now() - t0;
+  const mean = colourLayer(n, hw, m.status, new Float32Array(n * n), new Uint8Array(n * n), 'signed', (i) => m.meanError[i]!, POWER_ZERO_D);
+  const astig = colourLayer(n, hw, m.status, new Float32Array(n * n), new Uint8Array(n * n), 'magnitude', (i) => m.astigmaticError[i]!);
+  return {
+    id: req.id, ok: true, kind: 'power', size: n, halfWidthMm: hw, mean, astigmatism: astig, fillMs, cached,
+    workerMs: performance.now() - t0,
+  };
+}
+
+/**
+ * One coloured layer of a map: the value of each grid point with an answer (status ok) in
+ * image order, its colour on the project's scales and its contour lines. A 'magnitude' runs
+ * the whole sequential scale from 0; a 'signed' value the diverging scale with white at zero,
+ * symmetric when the values change sign, otherwise only the half (blue or red) they fall in,
+ * spread over their own range. `values` and `valid` are the caller's buffers (n x n).
+ */
+function colourLayer(
+  n: number, hw: number, status: Uint8Array, values: Float32Array, valid: Uint8Array,
+  kind: 'magnitude' | 'signed', valueAt: (i: number) => number, zeroTolerance = 0,
+): MapLayer {
+  // values in image order: image row 0 is the top of the lens (y = +hw), map row 0 the bottom
   const inside = new Uint8Array(n * n);
   let lo = Infinity, hi = -Infinity, failed = 0, apertureCount = 0;
   const step = (2 * hw) / (n - 1);
@@ -36,11 +95,8 @@ export function computeMap(req: MapRequest): MapResult {
       inside[k] = inAperture ? 1 : 0;
       if (inAperture) apertureCount++;
       let v = NaN;
-      if (map.status[i] === RayStatus.ok) {
-        const px = map.px[i]!, py = map.py[i]!;
-        const exact = Math.sqrt(px * px + py * py);
-        if (req.quantity === 'exact') v = exact;
-        else v = prenticeError(map.prentice[i]!, exact).percent ?? NaN;
+      if (status[i] === RayStatus.ok) {
+        v = valueAt(i);
         valid[k] = 1;
       } else if (inAperture) failed++;
       values[k] = v;
@@ -51,11 +107,12 @@ export function computeMap(req: MapRequest): MapResult {
     }
   }
   if (!(hi >= lo)) { lo = 0; hi = 1; }
-  // palette positions of lo and hi: exact prism runs the whole sequential scale from 0; the
-  // error uses the diverging scale with white at zero, symmetric when the values change sign,
-  // otherwise only the half (blue or red) they fall in, spread over their own range
+  // values within the tolerance of zero count as zero for the choice of scale (the pencil's
+  // finite differences leave a few 1e-6 D at the optical centre)
+  if (kind === 'signed' && hi > 0 && hi < zeroTolerance) hi = 0;
+  if (kind === 'signed' && lo < 0 && lo > -zeroTolerance) lo = 0;
   let tLo = 0, tHi = 1;
-  if (req.quantity === 'exact') lo = 0;
+  if (kind === 'magnitude') lo = 0;
   else if (lo < 0 && hi > 0) {
     const m = Math.max(-lo, hi);
     lo = -m; hi = m;
@@ -65,8 +122,7 @@ export function computeMap(req: MapRequest): MapResult {
 
   // colours from a 256-step table: the scale where there is an answer, hatching where the
   // aperture has none, transparent outside it
-  const kind = req.quantity === 'exact' ? 'sequential' : 'diverging';
-  const lut = colourTable(kind, tLo, tHi);
+  const lut = colourTable(kind === 'magnitude' ? 'sequential' : 'diverging', tLo, tHi);
   const rgba = new Uint8ClampedArray(4 * n * n);
   const scale = 255 / (hi - lo);
   for (let r = 0; r < n; r++) {
@@ -109,12 +165,7 @@ export function computeMap(req: MapRequest): MapResult {
   }
   const validPoly = contours().size([m, m]).thresholds([0.5])(cvalid as unknown as number[]);
   const validPath = validPoly[0] ? pathOf(validPoly[0].coordinates, f) : '';
-
-  return {
-    id: req.id, ok: true, size: n, halfWidthMm: hw, quantity: req.quantity, rgba, values, lo, hi, tLo, tHi,
-    contours: out, validPath, failedShare: apertureCount ? failed / apertureCount : 0,
-    workerMs: performance.now() - t0,
-  };
+  return { rgba, values, lo, hi, tLo, tHi, contours: out, validPath, failedShare: apertureCount ? failed / apertureCount : 0 };
 }
 
 /**

@@ -18,6 +18,7 @@
  * unit, and its full signed value in data-value (data-q names it); nothing shown is NaN or
  * Infinity. When the inputs are invalid the last valid result stays, marked stale.
  */
+import { powerCell } from '../../case/powerWords.ts';
 import { GUIDANCE_SOURCES, type Answer, type Guidance, type MarkEye, type PrismDescription, type SignedPair, type Verdict, ruleText } from '../../optics/index.ts';
 import type { FitReport } from '../../case/fit.ts';
 import { DASH, num } from '../format.ts';
@@ -287,6 +288,17 @@ export class BinocularPanel extends ResultsPane {
     });
     row('exact', 'Exact', 'prism there, real rays', (side) => prismCell(res[side].answers!.exact));
     row('prentice', 'Prentice', '−F·c at the same point', (side) => prismCell(res[side].answers!.prentice));
+    row('power', 'Power there', 'what the eye gets, at the vertex sphere', (side) => {
+      const p = res[side].answers!.power;
+      const d = el('span');
+      if ('failure' in p) {
+        d.className = 'failed';
+        d.textContent = `${DASH} ${p.message}`;
+        return d;
+      }
+      d.append(valueSpan(powerCell(p), 'power', null), hidden('power-mean', p.meanError), hidden('power-astig', p.astigmaticError));
+      return d;
+    });
     row('tca', 'Colour fringe', 'TCA exact (F−C) | P/V', (side) => {
       const tc = fit.tca[side];
       if (!tc) return `${DASH} (no Abbe number)`;

@@ -5,10 +5,11 @@
  */
 import { type FieldKey, readTraceCase, type TraceCase } from '../../case/lensCase.ts';
 import { InputError } from '../../case/input.ts';
+import type { PencilGeometry } from '../../scene/pencil.ts';
 import { type ViewCase, type ViewField, toRawFields } from '../../case/url.ts';
 import {
-  type FourAnswers, type Lens, type PrismProfile, type SpheroCyl, fourAnswers, prismProfile, toSpheroCyl,
-  findMaterial,
+  type FourAnswers, type Lens, type PrismProfile, type SpheroCyl, PencilPower, Placement, RayStatus,
+  findMaterial, focalLines, fourAnswers, pencilPower, pencilSetup, prismProfile, toSpheroCyl,
 } from '../../optics/index.ts';
 
 /** How each field is named in messages (and on screen). */
@@ -52,6 +53,20 @@ export interface Computed {
   abbe: number | null;
   materialName: string;
   warnings: string[];
+  /** the pencil along the exact line of sight, for drawing (null where it fails) */
+  pencil: PencilDrawing | null;
+}
+
+/** The pencil at the vertex sphere as the scene draws it (lens frame, mm). */
+export type PencilDrawing = PencilGeometry;
+
+/** The pencil of the exact line of sight (distant target), as the answers' power has it, with its focal lines. */
+function pencilOf(lens: Lens, a: FourAnswers, crMm: number, eye: 'R' | 'L'): PencilDrawing | null {
+  if ('failure' in a.power) return null;
+  const pl = new Placement({ ocXMm: 0, ocYMm: 0, crDistanceMm: crMm, pantoDeg: 0, wrapDeg: 0, eye });
+  const p = new PencilPower();
+  if (pencilPower(lens, a.exactTrace, pencilSetup(lens, pl, null), p) !== RayStatus.ok) return null;
+  return { v: [p.vx, p.vy, p.vz], d: [p.dx, p.dy, p.dz], lines: focalLines(p) };
 }
 
 export type ComputeOutcome =
@@ -99,6 +114,7 @@ export function computeCase(c: ViewCase, fallbackDirectionDeg = 0): ComputeOutco
       abbe: tc.lens.abbe ?? null,
       materialName: mat ? mat.name : `custom material, n = ${fmt(lens.index, 3)}`,
       warnings,
+      pencil: pencilOf(lens, answers, tc.crMm, tc.eye),
     },
   };
 }

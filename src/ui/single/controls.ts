@@ -11,6 +11,7 @@ import { readNumber, type Quantity } from '../../case/input.ts';
 import type { ViewCase, ViewDisplay, ViewField } from '../../case/url.ts';
 import { MATERIALS } from '../../optics/index.ts';
 import { InputError } from '../../case/input.ts';
+import { FORM_NEAR_MM, FORM_ROTATION_DEG, type PointFocalAsk } from './pointFocal.ts';
 import { decimalPoint, enableArrowSteps, errorSlot, formatStep, pointInField, lensFormVisibility, showFieldError } from '../numberInput.ts';
 
 interface NumberField {
@@ -50,6 +51,10 @@ export interface ControlHandlers {
   onDisplay(d: ViewDisplay): void;
   onRestoreDemo(): void;
   onCopyLink(): void;
+  /** the pencil toggle of the 3-D view (a view setting of this page, not part of the link) */
+  onPencil?(on: boolean): void;
+  /** find the point-focal front for the case on screen and apply it (returns what to say) */
+  onPointFocal?(ask: PointFocalAsk): { ok: boolean; message: string };
 }
 
 export class Controls {
@@ -60,6 +65,10 @@ export class Controls {
   private readonly errorEls = new Map<ViewField, HTMLElement>();
   private readonly handlers: ControlHandlers;
   private magNote: HTMLElement | null = null;
+  /** view settings kept on this page only */
+  private readonly view = { pencil: false };
+  /** the point-focal control's inputs, as typed */
+  private readonly pfAsk: PointFocalAsk = { rotation: String(FORM_ROTATION_DEG), target: 'distance', near: String(FORM_NEAR_MM) };
 
   constructor(container: HTMLElement, initial: ViewCase, display: ViewDisplay, handlers: ControlHandlers) {
     this.model = { ...initial };
@@ -98,6 +107,7 @@ export class Controls {
     this.num(lens, 'backK');
     this.choice(lens, 'cylOn', 'Cylinder on', { 'Back surface': 'back', 'Front surface': 'front' });
     this.choice(lens, 'toric', 'Toric form', { Tyre: 'tyre', Barrel: 'barrel' });
+    this.pointFocalControls(lens, handlers);
 
     const fit = this.gui.addFolder('Fitting');
     this.num(fit, 'cr');
@@ -121,6 +131,10 @@ export class Controls {
     disp.$children.appendChild(this.magNote);
     disp.add(this.display, 'labels').name('Labels in 3-D view').onChange(() => this.emitDisplay());
     disp.add(this.display, 'focimeterRay').name('Show focimeter beam').onChange(() => this.emitDisplay());
+    const pencil = disp.add(this.view, 'pencil').name('Show pencil, focal lines').onChange((on: boolean) => handlers.onPencil?.(on));
+    pencil.domElement.setAttribute('data-field', 'pencil');
+    pencil.domElement.querySelector('input')?.setAttribute('data-field', 'pencil');
+    pencil.domElement.title = 'Draw the pencil of rays that reaches the eye along the line of sight (drawn 4 mm wide at the vertex sphere) and its two focal lines (dashed: virtual)';
     disp.add(this.display, 'mapQuantity', { 'Exact prism (Δ)': 'exact', 'Prentice error (%)': 'error' })
       .name('Map shows').onChange(() => this.emitDisplay());
 
@@ -131,6 +145,37 @@ export class Controls {
     this.gui.folders.forEach((f) => f.domElement.setAttribute('data-folder', f._title));
     this.refreshVisibility();
     this.updateMagNote();
+  }
+
+  /**
+   * The point-focal form: an eye rotation, a distant or near target, and a button that asks
+   * the workspace to find the front curve free of astigmatic error there and apply it.
+   */
+  private pointFocalControls(lens: GUI, handlers: ControlHandlers): void {
+    const f = lens.addFolder('Point-focal front');
+    f.domElement.setAttribute('data-folder', 'Point-focal front');
+    const ask = this.pfAsk;
+    const rot = f.add(ask, 'rotation').name('Eye rotation (°)');
+    rot.domElement.querySelector('input')?.setAttribute('data-field', 'pfRotation');
+    const target = f.add(ask, 'target', { Distance: 'distance', Near: 'near' }).name('Target');
+    target.domElement.querySelector('select')?.setAttribute('data-field', 'pfTarget');
+    const near = f.add(ask, 'near').name('Near distance (mm)');
+    near.domElement.querySelector('input')?.setAttribute('data-field', 'pfNear');
+    near.show(ask.target === 'near');
+    target.onChange(() => near.show(ask.target === 'near'));
+    const msg = document.createElement('p');
+    msg.className = 'controls-hint pf-message';
+    msg.setAttribute('role', 'status');
+    msg.textContent = 'Finds the true front power that makes this spherical lens free of astigmatic error at the eye rotation (exact trace), and applies it.';
+    const go = f.add({ go: () => {
+      const out = handlers.onPointFocal?.({ ...ask });
+      if (!out) return;
+      msg.textContent = out.message;
+      msg.classList.toggle('pf-refused', !out.ok);
+    } }, 'go').name('Find and apply the point-focal front');
+    go.domElement.setAttribute('data-action', 'point-focal');
+    f.$children.appendChild(msg);
+    f.close();
   }
 
   /** Put a whole case into the fields (restore, URL, or a point picked in a view). */

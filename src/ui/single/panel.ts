@@ -1,9 +1,10 @@
 /**
- * The computation panel: the four answers at the visual point, the Prentice error, the lens
- * data and the warnings. Every number carries its unit; a value that cannot be computed is
+ * The computation panel: the four answers at the visual point, the Prentice error, the power
+ * the eye gets there (the pencil along the exact line of sight), the lens data and the warnings. Every number carries its unit; a value that cannot be computed is
  * said in words, never shown as NaN or Infinity. When the inputs are invalid the last valid
  * result stays, marked stale.
  */
+import { POWER_QUESTION, isPowerFailure, powerPlainWords } from '../../case/powerWords.ts';
 import type { Answer, PrismDescription } from '../../optics/index.ts';
 import type { Computed } from './compute.ts';
 import { DASH, dioptres, num, signed, spheroCyl, withUnit } from '../format.ts';
@@ -30,7 +31,7 @@ export class Panel extends ResultsPane {
     const b = this.begin();
     const eyeWord = r.tc.eye === 'R' ? 'Right eye' : 'Left eye';
     const rx = `${signed(r.tc.lens.sphereD)} / ${signed(r.tc.lens.cylD)} × ${num(r.tc.lens.axisDeg, 0)}°`;
-    b.append(el('h2', 'results-title', 'Prism at the visual point'));
+    b.append(el('h2', 'results-title', 'Prism and power at the visual point'));
     const sum = el('p', 'results-summary');
     sum.append(
       `${eyeWord}, ${rx}. Visual point `,
@@ -111,6 +112,7 @@ export class Panel extends ResultsPane {
       err.append(el('span', 'error-label', 'Prentice error '), `${DASH} (no exact answer at this point)`);
     }
     b.append(err);
+    b.append(powerBox(r));
 
     b.append(el('h3', undefined, 'Lens'));
     const dl = el('dl', 'lens-data');
@@ -144,6 +146,52 @@ export class Panel extends ResultsPane {
     for (const w of r.warnings) ul.append(el('li', 'warn', w));
     b.append(ul);
   }
+}
+
+/**
+ * The power beside the prism: the pencil's vergence at the vertex sphere along the exact line
+ * of sight (distant target) as sphere / cylinder x axis, its mean and astigmatic errors against
+ * the prescription, and Coddington's tangential and sagittal vergences where they apply.
+ */
+function powerBox(r: Computed): HTMLElement {
+  const box = el('div', 'power-box');
+  box.dataset.answer = 'power';
+  const head = el('div', 'power-head', 'Power the eye gets');
+  head.title = POWER_QUESTION;
+  box.append(head, el('span', 'power-question', `${POWER_QUESTION}, distant target.`));
+  const p = r.answers.power;
+  if (isPowerFailure(p)) {
+    box.append(el('span', 'failed', `No answer: ${p.message}.`));
+    return box;
+  }
+  const dl = el('dl', 'power-data');
+  const add = (term: string, note: string, ...value: (string | Node)[]): void => {
+    const dt = el('dt', undefined, term);
+    dt.title = note;
+    dl.append(dt);
+    const dd = el('dd');
+    dd.append(...value);
+    dl.append(dd);
+  };
+  const d = (v: number, q: string, sign = true): HTMLSpanElement => {
+    const s = el('span', 'v', sign ? dioptres(v) : withUnit(v, 'D', 2));
+    s.dataset.q = q;
+    if (Number.isFinite(v)) s.dataset.value = String(v);
+    return s;
+  };
+  const sc = el('span', 'v', spheroCyl({ sphereD: p.sphere, cylD: p.cyl, axisDeg: p.axis }));
+  sc.dataset.q = 'vergence';
+  for (const [k, v] of [['sphere', p.sphere], ['cyl', p.cyl], ['axis', p.axis]] as const) sc.dataset[k] = String(v);
+  add('Vergence', 'the pencil\'s vergence at the vertex sphere, as sphere / cylinder × axis (axis in the plane normal to the line of sight, docs/method.md)', sc);
+  add('Mean error', 'half the trace of (vergence − prescription): positive is more plus than prescribed', d(p.meanError, 'mean'));
+  add('Astigmatic error', 'the cylinder of (vergence − prescription), never negative', d(p.astigmaticError, 'astig', false));
+  if (p.tangential !== undefined && p.sagittal !== undefined) {
+    const ts = el('span');
+    ts.append(d(p.tangential, 'tangential'), ' / ', d(p.sagittal, 'sagittal'));
+    add('Tangential / sagittal', 'Coddington’s equations along the exact ray (lens of revolution, eye on its axis)', ts);
+  }
+  box.append(dl, el('span', 'power-verdict', powerPlainWords(p, r.tc.eye === 'R' ? 'right' : 'left')));
+  return box;
 }
 
 function isFail(a: Answer): a is { failure: 'miss' | 'tir' | 'geometry' | 'edge'; message: string } {

@@ -1,10 +1,10 @@
 /**
  * The "single lens" workspace: the controls on the left, the 3-D view with the cross-section,
- * the prism profile and the prism map under it, and the computation panel on the right. It
- * owns its state (the case as typed, the display settings, the last valid result), builds
- * its own elements inside the element it is given, and keeps the address bar in step with
- * its case (docs/visualiser.md). Other workspaces reach it through `open` (the range
- * workspace opens a lens of its table here).
+ * the prism profile and the maps (prism, mean and astigmatic error) under it, and the
+ * computation panel on the right. It owns its state (the case as typed, the display
+ * settings, the last valid result), builds its own elements inside the element it is given,
+ * and keeps the address bar in step with its case (docs/visualiser.md). Other workspaces
+ * reach it through `open` (the range workspace opens a lens of its table here).
  */
 import { type ViewCase, type ViewDisplay, type ViewField, caseToQuery } from '../../case/url.ts';
 import { DEMO_CASE, DEMO_DESCRIPTION, DEMO_TITLE } from '../../demo/demoCase.ts';
@@ -14,12 +14,14 @@ import { allocateRayPaths, buildRayPaths } from '../../scene/rayPaths.ts';
 import { VIEW_NAMES, type ViewName } from '../../scene/viewer.ts';
 import { num } from '../format.ts';
 import { History, bindUndoKeys, undoButtons } from '../history.ts';
+import { copyLink } from '../copyLink.ts';
 import { el } from '../resultsPane.ts';
 import { type Computed, computeCase } from './compute.ts';
 import { Controls } from './controls.ts';
 import { CrossSection } from './crossSection.ts';
 import { MapView } from './mapView.ts';
 import { Panel } from './panel.ts';
+import { pointFocalEdit } from './pointFocal.ts';
 import { ProfilePlot } from './profilePlot.ts';
 
 export interface SingleLensOptions {
@@ -36,7 +38,7 @@ export interface SingleLensOptions {
 
 type Tab = ViewDisplay['tab'];
 
-const TABS: [Tab, string][] = [['section', 'Cross-section'], ['profile', 'Prism along the direction'], ['map', 'Prism map']];
+const TABS: [Tab, string][] = [['section', 'Cross-section'], ['profile', 'Prism along the direction'], ['map', 'Prism map, power maps']];
 
 export class SingleLensWorkspace {
   readonly root: HTMLElement;
@@ -58,6 +60,9 @@ export class SingleLensWorkspace {
   private readonly stale: HTMLElement;
   private readonly mag: HTMLElement;
   private urlTimer = 0;
+  /** the 3-D view draws the pencil and its focal lines (a view setting of this page) */
+  private showPencil = false;
+  private readonly pencilKey: HTMLLIElement;
   /** the valid cases this workspace has shown, for undo and redo (docs/visualiser.md) */
   private history: History<ViewCase> | null = null;
   private readonly syncUndo: (canUndo: boolean, canRedo: boolean) => void;
@@ -133,6 +138,21 @@ export class SingleLensWorkspace {
       onDisplay: (d) => { this.display = { ...d, tab: this.display.tab }; this.dirty.section = true; this.update(null); },
       onRestoreDemo: () => { this.viewCase = { ...DEMO_CASE }; this.controls.setCase(this.viewCase); this.update(null); },
       onCopyLink: () => this.copyLink(),
+      onPencil: (on) => {
+        this.showPencil = on;
+        this.pencilKey.style.display = on ? '' : 'none';
+        this.update(null);
+        // the pencil can reach far beyond the eye: frame the view so that it shows
+        if (on) this.scene.reframe();
+      },
+      onPointFocal: (ask) => {
+        const out = pointFocalEdit(this.viewCase, ask);
+        if (!out.ok) return { ok: false, message: `Not applied: ${out.message}.` };
+        this.viewCase = out.case;
+        this.controls.setCase(this.viewCase);
+        this.update('front');
+        return { ok: true, message: out.message };
+      },
     });
 
     // undo and redo of case edits: buttons above the controls, and the keys
@@ -166,6 +186,12 @@ export class SingleLensWorkspace {
       li.append(sw, text);
       key.append(li);
     }
+    this.pencilKey = el('li');
+    this.pencilKey.style.display = 'none';
+    const psw = el('span', 'swatch');
+    psw.style.borderTopColor = css(COLORS.visualPoint);
+    this.pencilKey.append(psw, 'pencil, focal lines (dashed: virtual)');
+    key.append(this.pencilKey);
 
     // tabs
     for (const t of this.tabs) {
@@ -292,14 +318,14 @@ export class SingleLensWorkspace {
       const label = (name: string, d: { magnitude: number } | { failure: string }): string =>
         'failure' in d ? `${name}: no answer` : `${name} ${num(d.magnitude, 2)} Δ`;
       scene.update({
-        lens: r.lens, crMm: r.tc.crMm, answers: a,
+        lens: r.lens, crMm: r.tc.crMm, answers: a, pencil: r.pencil,
         labels: {
           exact: label('exact', a.exact),
           prentice: `${label('Prentice', a.prentice)}${a.error ? ` (${a.error.prism > 0 ? '+' : ''}${num(a.error.prism, 2)} Δ)` : ''}`,
           paraxial: label('first-order', a.paraxial),
           focimeter: label('focimeter', a.focimeter),
         },
-      }, { mag: display.mag, labels: display.labels, focimeterRay: display.focimeterRay });
+      }, { mag: display.mag, labels: display.labels, focimeterRay: display.focimeterRay, pencil: this.showPencil });
       panel.render(r);
       // the cross-section and the profile are drawn when their tab is shown
       this.dirty.section = true;
@@ -364,11 +390,7 @@ export class SingleLensWorkspace {
 
   copyLink(): void {
     this.writeUrlNow();
-    const href = location.href;
-    const { toast } = this.o;
-    if (navigator.clipboard?.writeText) {
-      navigator.clipboard.writeText(href).then(() => toast('Link to this case copied.'), () => toast(`Link to this case: ${href}`));
-    } else toast(`Link to this case: ${href}`);
+    copyLink(location.href, 'this case', this.o.toast);
   }
 
   /** What the end-to-end tests and the browser benchmark read (nothing else uses it). */
@@ -393,11 +415,13 @@ export class SingleLensWorkspace {
       canUndo: () => self.history?.canUndo ?? false,
       valid: () => self.stale.hidden,
       mapDrawn: () => map.drawn,
+      powerMapsDrawn: () => map.powerDrawn,
       /** request the current map again and resolve with its round trip (post to drawn), ms */
       mapRoundTrip: () => new Promise<{ roundTripMs: number; workerMs: number }>((resolve) => {
         const r = self.last;
         if (!r) throw new Error('no valid case');
-        const id = map.request({ spec: r.lens.spec, crMm: r.tc.crMm, eye: r.tc.eye, quantity: self.display.mapQuantity });
+        // the prism map alone: the figure bench:browser reports (the power maps follow separately)
+        const id = map.request({ spec: r.lens.spec, crMm: r.tc.crMm, eye: r.tc.eye, quantity: self.display.mapQuantity }, false);
         const prev = map.onResult;
         map.onResult = (rid, rt, wm) => {
           if (rid !== id) return;

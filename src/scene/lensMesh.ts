@@ -16,15 +16,16 @@ const RINGS = 36;
 const SEGMENTS = 120;
 const _hit = new Hit();
 
-function surfaceGeometry(): BufferGeometry {
+/** A grid of `rings` x `segments` quads (positions and normals filled later), shared by the round and edged lenses. */
+export function surfaceGeometry(rings = RINGS, segments = SEGMENTS): BufferGeometry {
   const g = new BufferGeometry();
-  const nv = (RINGS + 1) * (SEGMENTS + 1);
+  const nv = (rings + 1) * (segments + 1);
   g.setAttribute('position', new BufferAttribute(new Float32Array(3 * nv), 3));
   g.setAttribute('normal', new BufferAttribute(new Float32Array(3 * nv), 3));
   const idx: number[] = [];
-  for (let i = 0; i < RINGS; i++) {
-    for (let j = 0; j < SEGMENTS; j++) {
-      const a = i * (SEGMENTS + 1) + j, b = a + 1, c = a + SEGMENTS + 1, d = c + 1;
+  for (let i = 0; i < rings; i++) {
+    for (let j = 0; j < segments; j++) {
+      const a = i * (segments + 1) + j, b = a + 1, c = a + segments + 1, d = c + 1;
       idx.push(a, c, b, b, c, d);
     }
   }
@@ -32,23 +33,25 @@ function surfaceGeometry(): BufferGeometry {
   return g;
 }
 
-function edgeGeometry(): BufferGeometry {
+/** A band of `segments` quads between two outlines (the lens edge). */
+export function edgeGeometry(segments = SEGMENTS): BufferGeometry {
   const g = new BufferGeometry();
-  const nv = 2 * (SEGMENTS + 1);
+  const nv = 2 * (segments + 1);
   g.setAttribute('position', new BufferAttribute(new Float32Array(3 * nv), 3));
   g.setAttribute('normal', new BufferAttribute(new Float32Array(3 * nv), 3));
   const idx: number[] = [];
-  for (let j = 0; j < SEGMENTS; j++) {
-    const a = j, b = j + 1, c = SEGMENTS + 1 + j, d = c + 1;
+  for (let j = 0; j < segments; j++) {
+    const a = j, b = j + 1, c = segments + 1 + j, d = c + 1;
     idx.push(a, c, b, b, c, d);
   }
   g.setIndex(idx);
   return g;
 }
 
-function rimGeometry(): BufferGeometry {
+/** A closed outline of `segments` points. */
+export function rimGeometry(segments = SEGMENTS): BufferGeometry {
   const g = new BufferGeometry();
-  g.setAttribute('position', new BufferAttribute(new Float32Array(3 * SEGMENTS), 3));
+  g.setAttribute('position', new BufferAttribute(new Float32Array(3 * segments), 3));
   return g;
 }
 

@@ -16,6 +16,7 @@ import {
 } from 'three';
 import { Hit, type Lens, type Surface } from '../../optics/index.ts';
 import { COLORS } from '../palette.ts';
+import { edgeGeometry, rimGeometry, surfaceGeometry } from '../lensMesh.ts';
 
 /** Points round the outline. */
 export const OUTLINE_POINTS = 160;
@@ -82,42 +83,6 @@ export function outlinePoint(o: Outline, t: number, out: Float64Array): void {
 const _hit = new Hit();
 const _p = new Float64Array(4);
 
-function surfaceGeometry(): BufferGeometry {
-  const g = new BufferGeometry();
-  const nv = (RINGS + 1) * (OUTLINE_POINTS + 1);
-  g.setAttribute('position', new BufferAttribute(new Float32Array(3 * nv), 3));
-  g.setAttribute('normal', new BufferAttribute(new Float32Array(3 * nv), 3));
-  const idx: number[] = [];
-  for (let i = 0; i < RINGS; i++) {
-    for (let j = 0; j < OUTLINE_POINTS; j++) {
-      const a = i * (OUTLINE_POINTS + 1) + j, b = a + 1, c = a + OUTLINE_POINTS + 1, d = c + 1;
-      idx.push(a, c, b, b, c, d);
-    }
-  }
-  g.setIndex(idx);
-  return g;
-}
-
-function edgeGeometry(): BufferGeometry {
-  const g = new BufferGeometry();
-  const nv = 2 * (OUTLINE_POINTS + 1);
-  g.setAttribute('position', new BufferAttribute(new Float32Array(3 * nv), 3));
-  g.setAttribute('normal', new BufferAttribute(new Float32Array(3 * nv), 3));
-  const idx: number[] = [];
-  for (let j = 0; j < OUTLINE_POINTS; j++) {
-    const a = j, b = j + 1, c = OUTLINE_POINTS + 1 + j, d = c + 1;
-    idx.push(a, c, b, b, c, d);
-  }
-  g.setIndex(idx);
-  return g;
-}
-
-function rimGeometry(): BufferGeometry {
-  const g = new BufferGeometry();
-  g.setAttribute('position', new BufferAttribute(new Float32Array(3 * OUTLINE_POINTS), 3));
-  return g;
-}
-
 export class EdgedLensMesh {
   readonly group = new Group();
   private readonly front: Mesh;
@@ -138,16 +103,16 @@ export class EdgedLensMesh {
       side: DoubleSide, depthWrite: false,
     });
     this.rimMaterial = new LineBasicMaterial({ color: COLORS.rim });
-    this.front = new Mesh(surfaceGeometry(), this.glass);
-    this.back = new Mesh(surfaceGeometry(), this.glass);
-    this.edge = new Mesh(edgeGeometry(), this.edgeMaterial);
+    this.front = new Mesh(surfaceGeometry(RINGS, OUTLINE_POINTS), this.glass);
+    this.back = new Mesh(surfaceGeometry(RINGS, OUTLINE_POINTS), this.glass);
+    this.edge = new Mesh(edgeGeometry(OUTLINE_POINTS), this.edgeMaterial);
     this.front.name = 'edged-lens-front';
     this.back.name = 'edged-lens-back';
     this.edge.name = 'edged-lens-edge';
     this.back.renderOrder = 1;
     this.front.renderOrder = 2;
     this.edge.renderOrder = 3;
-    this.rims = [new LineLoop(rimGeometry(), this.rimMaterial), new LineLoop(rimGeometry(), this.rimMaterial)];
+    this.rims = [new LineLoop(rimGeometry(OUTLINE_POINTS), this.rimMaterial), new LineLoop(rimGeometry(OUTLINE_POINTS), this.rimMaterial)];
     this.group.add(this.back, this.front, this.edge, ...this.rims);
   }
 

@@ -106,6 +106,8 @@ export class Surface {
   // optional surface tilt: local = Rᵀ (lens - vertex); lens = R local + vertex
   readonly tilted: boolean;
   private readonly rot: Float64Array;
+  /** an untilted sphere, plane or conic: intersect goes straight to the closed form */
+  private readonly quadricFast: boolean;
 
   constructor(spec: SurfaceSpec) {
     this.curvature = spec.curvature;
@@ -130,6 +132,7 @@ export class Surface {
     // R = Ry(ty) · Rx(tx), row-major
     const cx = Math.cos(tx), sx = Math.sin(tx), cy = Math.cos(ty), sy = Math.sin(ty);
     this.rot = new Float64Array([cy, sy * sx, sy * cx, 0, cx, -sx, -sy, cy * sx, cy * cx]);
+    this.quadricFast = !this.tilted && this.kind !== SurfaceKind.toric;
   }
 
   /**
@@ -197,9 +200,16 @@ export class Surface {
    * Intersect a ray given in the LENS frame (unit direction). On success fills `hit` (lens
    * frame, unit normal towards +z, `t` the signed distance along the ray, which the caller
    * checks) and returns true; returns false on a miss.
+   * (Small on purpose, so that the compiler inlines it: an untilted sphere, plane or conic,
+   * the spectacle lens's usual surfaces, goes straight to the closed form.)
    */
   intersect(ray: Ray, hit: Hit): boolean {
-    // the ray in the surface frame
+    if (this.quadricFast) return this.intersectQuadric(ray, hit);
+    return this.intersectFramed(ray, hit);
+  }
+
+  /** intersect for a tilted surface or a toric: the ray into the surface frame and back. */
+  private intersectFramed(ray: Ray, hit: Hit): boolean {
     const L = _local;
     L.px = ray.px; L.py = ray.py; L.pz = ray.pz - this.vertexZ;
     L.dx = ray.dx; L.dy = ray.dy; L.dz = ray.dz;
@@ -235,10 +245,15 @@ export class Surface {
   /**
    * Sphere or conic: the quadric κ(x² + y² + (1+k) z²) + 2z = 0, solved with the stable root
    * continuous with the vertex plane (Spencer & Murty, J Opt Soc Am 1962):
-   * t = -c / (b + sign(b) sqrt(b² - ac)). Surface frame in and out.
+   * t = -c / (b + sign(b) sqrt(b² - ac)).
+   * `L` is either the ray in the lens frame of an untilted surface (from intersect; the hit is
+   * then in the lens frame) or `_local`, already in the surface frame (from intersectFramed;
+   * the hit is then in the surface frame). Values stay in locals and `hit` is written once.
    */
   private intersectQuadric(L: Ray, hit: Hit): boolean {
-    const px = L.px, py = L.py, pz = L.pz, dx = L.dx, dy = L.dy, dz = L.dz;
+    const framed = L === _local;
+    const oz = framed ? 0 : this.vertexZ;
+    const px = L.px, py = L.py, pz = L.pz - oz, dx = L.dx, dy = L.dy, dz = L.dz;
     const k = this.curvature;
     const e = 1 + this.conic;
     const a = k * (dx * dx + dy * dy + e * dz * dz);
@@ -252,14 +267,10 @@ export class Surface {
     const x = px + t * dx, y = py + t * dy, z = pz + t * dz;
     const q = 1 + e * k * z; // = sqrt(1 - (1+k)κ²r²) on the vertex branch
     if (q < 0) return false;
-    let nx = k * x, ny = k * y, nz = q;
-    if (this.kind !== SurfaceKind.sphere) {
-      // a sphere's (κx, κy, 1 + κz) is of unit length on the surface; a conic's is not
-      const inv = 1 / Math.sqrt(nx * nx + ny * ny + nz * nz);
-      nx *= inv; ny *= inv; nz *= inv;
-    }
-    hit.x = x; hit.y = y; hit.z = z; hit.t = t;
-    hit.nx = nx; hit.ny = ny; hit.nz = nz;
+    hit.x = x; hit.y = y; hit.z = framed ? z : z + oz; hit.t = t;
+    hit.nx = k * x; hit.ny = k * y; hit.nz = q;
+    // a sphere's (κx, κy, 1 + κz) is of unit length on the surface; a conic's is not
+    if (this.kind !== SurfaceKind.sphere) normalise(hit);
     return true;
   }
 
@@ -275,20 +286,23 @@ export class Surface {
 
   /** pointAt's work, reading (hit.x, hit.y). */
   fillPoint(hit: Hit): boolean {
-    if (this.kind === SurfaceKind.sphere) {
-      // a sphere's normal (κx, κy, q) is already of unit length: κ²r² + q² = 1
-      const k = this.curvature, x = hit.x, y = hit.y;
-      const r2 = x * x + y * y;
-      const q2 = 1 - k * k * r2;
-      if (!(q2 > 0) && k !== 0) return false;
-      const q = Math.sqrt(q2);
-      hit.z = this.vertexZ - (k * r2) / (1 + q);
-      hit.t = 0;
-      hit.nx = k * x;
-      hit.ny = k * y;
-      hit.nz = q;
-      return true;
-    }
+    if (this.kind !== SurfaceKind.sphere) return this.fillFromSag(hit);
+    // a sphere's normal (κx, κy, q) is already of unit length: κ²r² + q² = 1
+    const k = this.curvature, x = hit.x, y = hit.y;
+    const r2 = x * x + y * y;
+    const q2 = 1 - k * k * r2;
+    if (!(q2 > 0) && k !== 0) return false;
+    const q = Math.sqrt(q2);
+    hit.z = this.vertexZ - (k * r2) / (1 + q);
+    hit.t = 0;
+    hit.nx = k * x;
+    hit.ny = k * y;
+    hit.nz = q;
+    return true;
+  }
+
+  /** fillPoint for a conic or a toric, from evalSag. */
+  private fillFromSag(hit: Hit): boolean {
     const g = _sag;
     g.x = hit.x;
     g.y = hit.y;
@@ -421,6 +435,13 @@ export class Surface {
     }
     return false;
   }
+}
+
+/** Scale the normal in `hit` to unit length (a conic's (κx, κy, 1 + (1+k)κz) is not). */
+function normalise(hit: Hit): void {
+  const nx = hit.nx, ny = hit.ny, nz = hit.nz;
+  const inv = 1 / Math.sqrt(nx * nx + ny * ny + nz * nz);
+  hit.nx = nx * inv; hit.ny = ny * inv; hit.nz = nz * inv;
 }
 
 /** Scratch state of the toric root search. */

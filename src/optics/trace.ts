@@ -114,36 +114,37 @@ function backPoint(lens: Lens, out: LineTrace): RayStatus {
   return RayStatus.ok;
 }
 
-/** From the back-surface point (out.b*) along out.g* inside the glass, out through the front. */
+/**
+ * From the back-surface point (out.b*) along out.g* inside the glass, out through the front,
+ * and the prism of the deviation between out.a* and the object-side direction.
+ * (The tail that lineOfSight and focimeter share. It reads each LineTrace field once and keeps
+ * the values in locals; the compiler inlines the surface's closed-form intersection and
+ * Snell's law into it; see docs/performance.md.)
+ */
 function throughFront(lens: Lens, out: LineTrace): RayStatus {
   const h = _hit;
   const ray = _ray;
+  const gx = out.gx, gy = out.gy, gz = out.gz;
   ray.px = out.bx; ray.py = out.by; ray.pz = out.bz;
-  ray.dx = out.gx; ray.dy = out.gy; ray.dz = out.gz;
+  ray.dx = gx; ray.dy = gy; ray.dz = gz;
   if (!lens.front.intersect(ray, h)) return fail(out, RayStatus.miss);
   if (!(h.t > 0)) return fail(out, RayStatus.geometry);
   const fx = h.x, fy = h.y, fz = h.z;
-  if (fx * fx + fy * fy > lens.radiusMm * lens.radiusMm) return fail(out, RayStatus.beyondEdge);
+  const r = lens.radiusMm;
+  if (fx * fx + fy * fy > r * r) return fail(out, RayStatus.beyondEdge);
   out.fx = fx; out.fy = fy; out.fz = fz;
   // the exit point must lie where the lens has thickness: the back surface behind it
   if (lens.solidRadiusMm < 0) lens.findSolidRadius();
   const solid = lens.solidRadiusMm;
-  if (fx * fx + fy * fy >= solid * solid) {
-    _sag.x = fx; _sag.y = fy;
-    if (!lens.back.evalSag(_sag) || !(fz > lens.back.vertexZ - _sag.sag)) return fail(out, RayStatus.geometry);
-  }
-  _dir.x = out.gx; _dir.y = out.gy; _dir.z = out.gz;
-  if (!refractVec(_dir, h, lens.outOfGlass)) return fail(out, RayStatus.tir);
-  out.ox = _dir.x; out.oy = _dir.y; out.oz = _dir.z;
-  return setPrism(out);
-}
-
-/**
- * Prism of the deviation between reverse unit directions a (eye side) and o (object side):
- * 100 tan δ towards the projection of o - a on the x-y plane.
- */
-function setPrism(out: LineTrace): RayStatus {
-  const ax = out.ax, ay = out.ay, az = out.az, bx = out.ox, by = out.oy, bz = out.oz;
+  if (fx * fx + fy * fy >= solid * solid && !solidAt(lens, out)) return fail(out, RayStatus.geometry);
+  const d = _dir;
+  d.x = gx; d.y = gy; d.z = gz;
+  if (!refractVec(d, h, lens.outOfGlass)) return fail(out, RayStatus.tir);
+  const bx = d.x, by = d.y, bz = d.z;
+  out.ox = bx; out.oy = by; out.oz = bz;
+  // the prism of the deviation between the reverse unit directions a (eye side) and o
+  // (object side): 100 tan δ towards the projection of o - a on the x-y plane
+  const ax = out.ax, ay = out.ay, az = out.az;
   const cx = ay * bz - az * by, cy = az * bx - ax * bz, cz = ax * by - ay * bx;
   const sin = Math.sqrt(cx * cx + cy * cy + cz * cz);
   const cos = ax * bx + ay * by + az * bz;
@@ -153,6 +154,12 @@ function setPrism(out: LineTrace): RayStatus {
   splitPrism(out);
   out.status = RayStatus.ok;
   return RayStatus.ok;
+}
+
+/** Whether the lens has thickness at the exit point (out.fx, out.fy, out.fz): the back surface lies behind it. */
+function solidAt(lens: Lens, out: LineTrace): boolean {
+  _sag.x = out.fx; _sag.y = out.fy;
+  return lens.back.evalSag(_sag) && out.fz > lens.back.vertexZ - _sag.sag;
 }
 
 /** Components of out.prism along the base direction in _base. */

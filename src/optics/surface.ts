@@ -263,10 +263,19 @@ export class Surface {
     if (disc < 0) return false;
     const den = b >= 0 ? b + Math.sqrt(disc) : b - Math.sqrt(disc);
     if (den === 0) return false;
-    const t = -c / den;
-    const x = px + t * dx, y = py + t * dy, z = pz + t * dz;
-    const q = 1 + e * k * z; // = sqrt(1 - (1+k)κ²r²) on the vertex branch
-    if (q < 0) return false;
+    let t = -c / den;
+    let x = px + t * dx, y = py + t * dy, z = pz + t * dz;
+    let q = 1 + e * k * z; // = sqrt(1 - (1+k)κ²r²) on the vertex branch
+    if (q < 0) {
+      // a ray that starts beyond the centre of curvature (inside the sphere, or outside it on
+      // the far side): the stable root above is the far branch; the vertex branch is the
+      // other root, -den / a (the roots' product is c / a)
+      if (a === 0) return false;
+      t = -den / a;
+      x = px + t * dx; y = py + t * dy; z = pz + t * dz;
+      q = 1 + e * k * z;
+      if (q < 0) return false;
+    }
     hit.x = x; hit.y = y; hit.z = framed ? z : z + oz; hit.t = t;
     hit.nx = k * x; hit.ny = k * y; hit.nz = q;
     // a sphere's (κx, κy, 1 + κz) is of unit length on the surface; a conic's is not

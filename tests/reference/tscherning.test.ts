@@ -21,13 +21,11 @@
  * at 333.33 mm (the trace measures it from the vertex sphere, the ellipse from the lens: the
  * same in the thin, small-angle limit). No diameter, so no edge check.
  *
- * Left out, and why: the Wollaston (steep) branch of MINUS lenses. There the back surface is
- * steeper than a sphere centred on the centre of rotation (its centre of curvature lies between
- * the lens and the centre of rotation), and formError returns NaN for every such form: the
- * first intersection it asks for, from the centre of rotation to the back surface, is reported
- * as a miss by Surface.intersect (the root it picks is the one on the far side of that sphere).
- * So formFronts cannot return those roots; this was reported to the lead engineer rather than
- * worked around here. F = 0 is left out too: a zero-power thin lens has no astigmatism at any
+ * The Wollaston (steep) branch of minus lenses has a back surface steeper than a sphere centred
+ * on the centre of rotation; the trace from the centre of rotation then starts beyond the back
+ * surface's centre of curvature. Surface.intersect once reported a miss there (it took the far
+ * branch of the sphere); this test found it, and the distant -10 D and all -4 D cases now carry
+ * both branches. Left out: F = 0, where a zero-power thin lens has no astigmatism at any
  * bending, so the ellipse says nothing there.
  */
 import { describe, expect, test } from 'vitest';
@@ -50,7 +48,7 @@ interface Case {
   powerD: number;
   index: number;
   nearMm: number | null;
-  /** plus lenses: both branches; minus lenses: the Ostwalt branch only (see the header) */
+  /** the branches checked (the -10 D near case: the Ostwalt branch only) */
   branches: ('ostwalt' | 'wollaston')[];
 }
 
@@ -58,15 +56,15 @@ const both: Case['branches'] = ['ostwalt', 'wollaston'];
 const flat: Case['branches'] = ['ostwalt'];
 
 export const cases: Case[] = [
-  { powerD: -10, index: 1.5, nearMm: null, branches: flat },
-  { powerD: -4, index: 1.5, nearMm: null, branches: flat },
+  { powerD: -10, index: 1.5, nearMm: null, branches: both },
+  { powerD: -4, index: 1.5, nearMm: null, branches: both },
   { powerD: 2, index: 1.5, nearMm: null, branches: both },
   { powerD: 4, index: 1.5, nearMm: null, branches: both },
   { powerD: 6, index: 1.5, nearMm: null, branches: both },
-  { powerD: -4, index: 1.6, nearMm: null, branches: flat },
+  { powerD: -4, index: 1.6, nearMm: null, branches: both },
   { powerD: 4, index: 1.6, nearMm: null, branches: both },
   { powerD: -10, index: 1.5, nearMm: NEAR_MM, branches: flat },
-  { powerD: -4, index: 1.5, nearMm: NEAR_MM, branches: flat },
+  { powerD: -4, index: 1.5, nearMm: NEAR_MM, branches: both },
   { powerD: 2, index: 1.5, nearMm: NEAR_MM, branches: both },
   { powerD: 4, index: 1.5, nearMm: NEAR_MM, branches: both },
 ];
@@ -84,7 +82,7 @@ function traced(c: Case, ctMm: number, rotationDeg: number): { ostwalt: number; 
     frontMinD: -5, frontMaxD: 30,
   };
   const roots = formFronts(q);
-  // flattest first (formFronts' order); a minus lens shows only its Ostwalt root here
+  // flattest first (formFronts' order)
   expect(roots.length, `${label(c)}: roots found at ${ctMm} mm, ${rotationDeg}°`).toBeGreaterThanOrEqual(c.branches.length);
   return { ostwalt: roots[0]!, wollaston: roots[roots.length - 1]! };
 }
@@ -183,7 +181,7 @@ describe('the exact trace (formFronts) in the thin-lens, small-angle limit', () 
         expect(d1 / d2, `${label(c)} ${br}: ${d1} / ${d2}`).toBeLessThan(2.1);
       }
     }
-    // 16 branches in the table; all but the two -10 D ones carry a measurable thickness term
+    // 20 branches in the table; all but a few -10 D ones carry a measurable thickness term
     expect(checked).toBeGreaterThanOrEqual(14);
   });
 

@@ -4,7 +4,7 @@
  * whose slopes in turn match central differences of the sag. Toric intersection from awkward
  * starts, where Newton from the vertex plane cannot work and the bracketing fallback must.
  */
-import { describe, expect, test } from 'vitest';
+import { describe, expect, it, test } from 'vitest';
 import { Hit, Lens, Ray, SagEval, Surface, type SurfaceSpec, fourAnswers, isFailure } from '../../src/optics/index.ts';
 import { rng } from '../reference/rng.ts';
 
@@ -176,5 +176,29 @@ describe('toric intersection from awkward starts (bracketing fallback)', () => {
     expect(crossing).toBeGreaterThan(3);
     expect(lens.thicknessAt(t.bx + crossing * t.gx, t.by + crossing * t.gy)).toBeGreaterThan(3);
     expect(isFailure(a.exact) ? a.exact.failure : 'ok').toBe('ok');
+  });
+});
+
+describe('a ray that starts beyond the centre of curvature meets the vertex branch (geometry of the sphere)', () => {
+  // Found by the Tscherning reference test: the stable root of the quadric is the far side of
+  // the sphere when the ray starts beyond its centre; the vertex branch is the other root.
+  it('from inside a convex-to-object sphere (centre between the start and the vertex)', () => {
+    const s = new Surface({ curvature: 1 / 25, vertexZ: 0 });
+    const h = new Hit();
+    expect(s.intersect(new Ray().set(0, 0, -27, 0, 0, 1), h)).toBe(true);
+    expect(h.z).toBe(0);
+    expect(h.t).toBe(27);
+    // an oblique ray: the hit lies on the sphere of radius 25 about (0, 0, -25), on the vertex side
+    expect(s.intersect(new Ray().set(3, 1, -27, 0.1, 0, Math.sqrt(0.99)), h)).toBe(true);
+    expect(Math.hypot(h.x, h.y, h.z + 25)).toBeCloseTo(25, 12);
+    expect(h.z).toBeGreaterThan(-25);
+  });
+
+  it('from a far target towards a concave front whose centre lies between them', () => {
+    const s = new Surface({ curvature: -1 / 100, vertexZ: 2 });
+    const h = new Hit();
+    expect(s.intersect(new Ray().set(1, 0, 333, 0, 0, -1), h)).toBe(true);
+    // z = vertex - sag, sag = R - sqrt(R² - r²) with R = -100 mm, r = 1 mm
+    expect(h.z).toBeCloseTo(2 - (-100 + Math.sqrt(100 * 100 - 1)), 12);
   });
 });

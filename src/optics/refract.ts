@@ -14,14 +14,16 @@ export interface IndexRatio {
 }
 
 /**
- * Refract unit direction `d` (read and overwritten) at a surface with unit normal
- * (n.nx, n.ny, n.nz) (either orientation), with η = ratio.eta. Returns false on total internal
- * reflection (d untouched). Objects only: the per-ray path passes no loose numbers to a call
- * the compiler might not inline (such numbers would be boxed, i.e. allocated).
+ * Snell's law on unboxed numbers, the one implementation: refract the unit direction at
+ * v[d], v[d+1], v[d+2] (read and overwritten) at a surface with unit normal v[n], v[n+1],
+ * v[n+2] (either orientation), with η = ratio.eta. Returns false on total internal reflection
+ * (the direction untouched). The trace calls it on the working storage of rayWork.ts
+ * (typed-array elements are raw doubles, without the box of a double-valued object field;
+ * the offsets are small integers, which are never boxed; docs/performance.md).
  */
-export function refractVec(d: Vec3Out, n: { nx: number; ny: number; nz: number }, ratio: IndexRatio): boolean {
-  const dx = d.x, dy = d.y, dz = d.z;
-  let nx = n.nx, ny = n.ny, nz = n.nz;
+export function refractAt(v: Float64Array, d: number, n: number, ratio: IndexRatio): boolean {
+  const dx = v[d]!, dy = v[d + 1]!, dz = v[d + 2]!;
+  let nx = v[n]!, ny = v[n + 1]!, nz = v[n + 2]!;
   let cosi = -(dx * nx + dy * ny + dz * nz);
   if (cosi < 0) {
     nx = -nx; ny = -ny; nz = -nz;
@@ -31,15 +33,30 @@ export function refractVec(d: Vec3Out, n: { nx: number; ny: number; nz: number }
   const k = 1 - eta * eta * (1 - cosi * cosi);
   if (k < 0) return false;
   const g = eta * cosi - Math.sqrt(k);
-  d.x = eta * dx + g * nx;
-  d.y = eta * dy + g * ny;
-  d.z = eta * dz + g * nz;
+  v[d] = eta * dx + g * nx;
+  v[d + 1] = eta * dy + g * ny;
+  v[d + 2] = eta * dz + g * nz;
   return true;
 }
 
-const _d = { x: 0, y: 0, z: 0 };
-const _n = { nx: 0, ny: 0, nz: 0 };
+const _v = new Float64Array(6);
 const _r = { eta: 1 };
+
+/**
+ * Refract unit direction `d` (read and overwritten) at a surface with unit normal
+ * (n.nx, n.ny, n.nz) (either orientation), with η = ratio.eta. Returns false on total internal
+ * reflection (d untouched). Objects only: the per-ray path passes no loose numbers to a call
+ * the compiler might not inline (such numbers would be boxed, i.e. allocated). A thin wrapper
+ * of refractAt.
+ */
+export function refractVec(d: Vec3Out, n: { nx: number; ny: number; nz: number }, ratio: IndexRatio): boolean {
+  const v = _v;
+  v[0] = d.x; v[1] = d.y; v[2] = d.z;
+  v[3] = n.nx; v[4] = n.ny; v[5] = n.nz;
+  if (!refractAt(v, 0, 3, ratio)) return false;
+  d.x = v[0]!; d.y = v[1]!; d.z = v[2]!;
+  return true;
+}
 
 /**
  * Refract unit direction (dx, dy, dz) at a surface with unit normal (nx, ny, nz) (either
@@ -52,10 +69,11 @@ export function refract(
   n1: number, n2: number,
   out: Vec3Out,
 ): boolean {
-  _d.x = dx; _d.y = dy; _d.z = dz;
-  _n.nx = nx; _n.ny = ny; _n.nz = nz;
+  const v = _v;
+  v[0] = dx; v[1] = dy; v[2] = dz;
+  v[3] = nx; v[4] = ny; v[5] = nz;
   _r.eta = n1 / n2;
-  if (!refractVec(_d, _n, _r)) return false;
-  out.x = _d.x; out.y = _d.y; out.z = _d.z;
+  if (!refractAt(v, 0, 3, _r)) return false;
+  out.x = v[0]!; out.y = v[1]!; out.z = v[2]!;
   return true;
 }

@@ -8,8 +8,11 @@
  * Lengths are in millimetres and curvatures in 1/mm inside the engine.
  *
  * Every method here is on the per-ray path: no allocation, results go into caller-owned
- * objects, and a geometric miss is a returned status, never an exception.
+ * objects, and a geometric miss is a returned status, never an exception. The intersection
+ * and the point-and-normal evaluation each have one core (`intersectWork`, `fillPointWork`)
+ * that works in the unboxed scratch of rayWork.ts; `intersect` and `fillPoint` copy in and out.
  */
+import { work } from './rayWork.ts';
 
 /** Surface kinds. A plane is a sphere of curvature 0; it has its own tag only for speed. */
 export const SurfaceKind = {
@@ -199,46 +202,65 @@ export class Surface {
   /**
    * Intersect a ray given in the LENS frame (unit direction). On success fills `hit` (lens
    * frame, unit normal towards +z, `t` the signed distance along the ray, which the caller
-   * checks) and returns true; returns false on a miss.
+   * checks) and returns true; returns false on a miss (hit untouched).
+   * (A thin wrapper: the ray is copied into the unboxed working storage (rayWork.ts), the one
+   * core `intersectWork` runs there, and the hit is copied out.)
+   */
+  intersect(ray: Ray, hit: Hit): boolean {
+    const w = work;
+    // slots (rayWork.ts): 0-5 the ray, 6-12 the hit
+    w[0] = ray.px; w[1] = ray.py; w[2] = ray.pz;
+    w[3] = ray.dx; w[4] = ray.dy; w[5] = ray.dz;
+    if (!this.intersectWork()) return false;
+    hit.x = w[6]!; hit.y = w[7]!; hit.z = w[8]!; hit.t = w[9]!;
+    hit.nx = w[10]!; hit.ny = w[11]!; hit.nz = w[12]!;
+    return true;
+  }
+
+  /**
+   * intersect's work: the ray from `work` (0-5, lens frame, left unchanged), the hit into
+   * `work` (6-12, lens frame); false on a miss. The per-ray path calls this directly.
+   * (Slots of `work`: rayWork.ts.)
    * (Small on purpose, so that the compiler inlines it: an untilted sphere, plane or conic,
    * the spectacle lens's usual surfaces, goes straight to the closed form.)
    */
-  intersect(ray: Ray, hit: Hit): boolean {
-    if (this.quadricFast) return this.intersectQuadric(ray, hit);
-    return this.intersectFramed(ray, hit);
+  intersectWork(): boolean {
+    if (this.quadricFast) return this.intersectQuadric(0);
+    return this.intersectFramed();
   }
 
-  /** intersect for a tilted surface or a toric: the ray into the surface frame and back. */
-  private intersectFramed(ray: Ray, hit: Hit): boolean {
-    const L = _local;
-    L.px = ray.px; L.py = ray.py; L.pz = ray.pz - this.vertexZ;
-    L.dx = ray.dx; L.dy = ray.dy; L.dz = ray.dz;
+  /** intersectWork for a tilted surface or a toric: the ray into the surface frame and back. */
+  private intersectFramed(): boolean {
+    const w = work;
+    // slots (rayWork.ts): 13-18 the ray in the surface frame, 6-12 the hit
+    w[13] = w[0]!; w[14] = w[1]!; w[15] = w[2]! - this.vertexZ;
+    w[16] = w[3]!; w[17] = w[4]!; w[18] = w[5]!;
     const R = this.rot;
     if (this.tilted) {
-      const px = L.px, py = L.py, pz = L.pz, dx = L.dx, dy = L.dy, dz = L.dz;
-      L.px = R[0] * px + R[3] * py + R[6] * pz;
-      L.py = R[1] * px + R[4] * py + R[7] * pz;
-      L.pz = R[2] * px + R[5] * py + R[8] * pz;
-      L.dx = R[0] * dx + R[3] * dy + R[6] * dz;
-      L.dy = R[1] * dx + R[4] * dy + R[7] * dz;
-      L.dz = R[2] * dx + R[5] * dy + R[8] * dz;
+      const px = w[13]!, py = w[14]!, pz = w[15]!, dx = w[16]!, dy = w[17]!, dz = w[18]!;
+      w[13] = R[0]! * px + R[3]! * py + R[6]! * pz;
+      w[14] = R[1]! * px + R[4]! * py + R[7]! * pz;
+      w[15] = R[2]! * px + R[5]! * py + R[8]! * pz;
+      w[16] = R[0]! * dx + R[3]! * dy + R[6]! * dz;
+      w[17] = R[1]! * dx + R[4]! * dy + R[7]! * dz;
+      w[18] = R[2]! * dx + R[5]! * dy + R[8]! * dz;
     }
     if (this.kind !== SurfaceKind.toric) {
-      if (!this.intersectQuadric(L, hit)) return false;
-    } else if (!this.intersectToric(L, hit)) {
+      if (!this.intersectQuadric(13)) return false;
+    } else if (!this.intersectToric()) {
       return false;
     }
     if (this.tilted) {
-      const x = hit.x, y = hit.y, z = hit.z;
-      hit.x = R[0] * x + R[1] * y + R[2] * z;
-      hit.y = R[3] * x + R[4] * y + R[5] * z;
-      hit.z = R[6] * x + R[7] * y + R[8] * z;
-      const a = hit.nx, b = hit.ny, c = hit.nz;
-      hit.nx = R[0] * a + R[1] * b + R[2] * c;
-      hit.ny = R[3] * a + R[4] * b + R[5] * c;
-      hit.nz = R[6] * a + R[7] * b + R[8] * c;
+      const x = w[6]!, y = w[7]!, z = w[8]!;
+      w[6] = R[0]! * x + R[1]! * y + R[2]! * z;
+      w[7] = R[3]! * x + R[4]! * y + R[5]! * z;
+      w[8] = R[6]! * x + R[7]! * y + R[8]! * z;
+      const a = w[10]!, b = w[11]!, c = w[12]!;
+      w[10] = R[0]! * a + R[1]! * b + R[2]! * c;
+      w[11] = R[3]! * a + R[4]! * b + R[5]! * c;
+      w[12] = R[6]! * a + R[7]! * b + R[8]! * c;
     }
-    hit.z += this.vertexZ;
+    w[8] = w[8]! + this.vertexZ;
     return true;
   }
 
@@ -246,14 +268,16 @@ export class Surface {
    * Sphere or conic: the quadric κ(x² + y² + (1+k) z²) + 2z = 0, solved with the stable root
    * continuous with the vertex plane (Spencer & Murty, J Opt Soc Am 1962):
    * t = -c / (b + sign(b) sqrt(b² - ac)).
-   * `L` is either the ray in the lens frame of an untilted surface (from intersect; the hit is
-   * then in the lens frame) or `_local`, already in the surface frame (from intersectFramed;
-   * the hit is then in the surface frame). Values stay in locals and `hit` is written once.
+   * `o` is where the ray starts in `work` (rayWork.ts): 0, the ray in the lens frame of an
+   * untilted surface (from intersectWork; the hit is then in the lens frame), or 13, already
+   * in the surface frame (from intersectFramed; the hit is then in the surface frame). Values stay in
+   * locals and the hit is written once.
    */
-  private intersectQuadric(L: Ray, hit: Hit): boolean {
-    const framed = L === _local;
+  private intersectQuadric(o: number): boolean {
+    const w = work;
+    const framed = o !== 0;
     const oz = framed ? 0 : this.vertexZ;
-    const px = L.px, py = L.py, pz = L.pz - oz, dx = L.dx, dy = L.dy, dz = L.dz;
+    const px = w[o]!, py = w[o + 1]!, pz = w[o + 2]! - oz, dx = w[o + 3]!, dy = w[o + 4]!, dz = w[o + 5]!;
     const k = this.curvature;
     const e = 1 + this.conic;
     const a = k * (dx * dx + dy * dy + e * dz * dz);
@@ -276,10 +300,11 @@ export class Surface {
       q = 1 + e * k * z;
       if (q < 0) return false;
     }
-    hit.x = x; hit.y = y; hit.z = framed ? z : z + oz; hit.t = t;
-    hit.nx = k * x; hit.ny = k * y; hit.nz = q;
+    // the hit: point 6-8, t 9, normal 10-12
+    w[6] = x; w[7] = y; w[8] = framed ? z : z + oz; w[9] = t;
+    w[10] = k * x; w[11] = k * y; w[12] = q;
     // a sphere's (κx, κy, 1 + κz) is of unit length on the surface; a conic's is not
-    if (this.kind !== SurfaceKind.sphere) normalise(hit);
+    if (this.kind !== SurfaceKind.sphere) normaliseWork();
     return true;
   }
 
@@ -293,35 +318,51 @@ export class Surface {
     return this.fillPoint(hit);
   }
 
-  /** pointAt's work, reading (hit.x, hit.y). */
+  /** pointAt's work, reading (hit.x, hit.y) (a thin wrapper of fillPointWork). */
   fillPoint(hit: Hit): boolean {
-    if (this.kind !== SurfaceKind.sphere) return this.fillFromSag(hit);
+    const w = work;
+    w[6] = hit.x; w[7] = hit.y;
+    if (!this.fillPointWork()) return false;
+    hit.z = w[8]!; hit.t = w[9]!;
+    hit.nx = w[10]!; hit.ny = w[11]!; hit.nz = w[12]!;
+    return true;
+  }
+
+  /**
+   * fillPoint's work in `work`: reads x, y (6, 7), writes z (8), t = 0 (9) and the normal
+   * (10-12); false where
+   * the surface does not exist (nothing written). The per-ray path calls this directly.
+   */
+  fillPointWork(): boolean {
+    if (this.kind !== SurfaceKind.sphere) return this.fillFromSag();
     // a sphere's normal (κx, κy, q) is already of unit length: κ²r² + q² = 1
-    const k = this.curvature, x = hit.x, y = hit.y;
+    const w = work;
+    const k = this.curvature, x = w[6]!, y = w[7]!;
     const r2 = x * x + y * y;
     const q2 = 1 - k * k * r2;
     if (!(q2 > 0) && k !== 0) return false;
     const q = Math.sqrt(q2);
-    hit.z = this.vertexZ - (k * r2) / (1 + q);
-    hit.t = 0;
-    hit.nx = k * x;
-    hit.ny = k * y;
-    hit.nz = q;
+    w[8] = this.vertexZ - (k * r2) / (1 + q);
+    w[9] = 0;
+    w[10] = k * x;
+    w[11] = k * y;
+    w[12] = q;
     return true;
   }
 
-  /** fillPoint for a conic or a toric, from evalSag. */
-  private fillFromSag(hit: Hit): boolean {
+  /** fillPointWork for a conic or a toric, from evalSag. */
+  private fillFromSag(): boolean {
+    const w = work;
     const g = _sag;
-    g.x = hit.x;
-    g.y = hit.y;
+    g.x = w[6]!;
+    g.y = w[7]!;
     if (!this.evalSag(g)) return false;
     const inv = 1 / Math.sqrt(g.dx * g.dx + g.dy * g.dy + 1);
-    hit.z = this.vertexZ - g.sag;
-    hit.t = 0;
-    hit.nx = g.dx * inv;
-    hit.ny = g.dy * inv;
-    hit.nz = inv;
+    w[8] = this.vertexZ - g.sag;
+    w[9] = 0;
+    w[10] = g.dx * inv;
+    w[11] = g.dy * inv;
+    w[12] = inv;
     return true;
   }
 
@@ -331,18 +372,21 @@ export class Surface {
    * searched outwards from the vertex plane and closed by Newton steps kept inside it
    * (rtsafe, Press et al., Numerical Recipes §9.4). Fills hit (surface frame) or returns false.
    */
-  private intersectToric(L: Ray, hit: Hit): boolean {
-    if (L.dz === 0) return false;
+  private intersectToric(): boolean {
+    const w = work;
+    // the ray in the surface frame (13-18); the hit goes to 6-12
+    const lpx = w[13]!, lpy = w[14]!, lpz = w[15]!, ldx = w[16]!, ldy = w[17]!, ldz = w[18]!;
+    if (ldz === 0) return false;
     const g = _sag;
-    const t0 = -L.pz / L.dz;
+    const t0 = -lpz / ldz;
     let t = t0;
     let ok = false;
     for (let i = 0; i < NEWTON_MAX; i++) {
-      g.x = L.px + t * L.dx;
-      g.y = L.py + t * L.dy;
+      g.x = lpx + t * ldx;
+      g.y = lpy + t * ldy;
       if (!this.evalSag(g)) break;
-      const f = L.pz + t * L.dz + g.sag;
-      const fp = L.dz + g.dx * L.dx + g.dy * L.dy;
+      const f = lpz + t * ldz + g.sag;
+      const fp = ldz + g.dx * ldx + g.dy * ldy;
       if (fp === 0) break;
       const step = f / fp;
       t -= step;
@@ -352,29 +396,30 @@ export class Surface {
       }
     }
     if (ok) {
-      g.x = L.px + t * L.dx;
-      g.y = L.py + t * L.dy;
+      g.x = lpx + t * ldx;
+      g.y = lpy + t * ldy;
       ok = this.evalSag(g);
     }
     if (!ok) {
       _solve.t = t0;
-      if (!this.bracketToric(L)) return false;
+      if (!this.bracketToric()) return false;
       t = _solve.t;
-      g.x = L.px + t * L.dx;
-      g.y = L.py + t * L.dy;
+      g.x = lpx + t * ldx;
+      g.y = lpy + t * ldy;
       if (!this.evalSag(g)) return false;
     }
     const inv = 1 / Math.sqrt(g.dx * g.dx + g.dy * g.dy + 1);
-    hit.x = g.x; hit.y = g.y; hit.z = -g.sag; hit.t = t;
-    hit.nx = g.dx * inv; hit.ny = g.dy * inv; hit.nz = inv;
+    w[6] = g.x; w[7] = g.y; w[8] = -g.sag; w[9] = t;
+    w[10] = g.dx * inv; w[11] = g.dy * inv; w[12] = inv;
     return true;
   }
 
   /** g(t) = z(t) + sag at the ray's point t; NaN where there is no surface. */
-  private gAt(L: Ray, t: number): number {
-    _sag.x = L.px + t * L.dx;
-    _sag.y = L.py + t * L.dy;
-    return this.evalSag(_sag) ? L.pz + t * L.dz + _sag.sag : NaN;
+  private gAt(t: number): number {
+    const w = work;
+    _sag.x = w[13]! + t * w[16]!;
+    _sag.y = w[14]! + t * w[17]!;
+    return this.evalSag(_sag) ? w[15]! + t * w[18]! + _sag.sag : NaN;
   }
 
   /**
@@ -382,32 +427,32 @@ export class Surface {
    * vertex-plane point may lie outside the surface's domain (a steep torus met obliquely):
    * each side then starts from its first point where the surface exists.
    */
-  private bracketToric(L: Ray): boolean {
+  private bracketToric(): boolean {
     const S = _solve;
     const t0 = S.t;
-    const f0 = this.gAt(L, t0);
+    const f0 = this.gAt(t0);
     if (f0 === 0) return true;
     // walk outwards both ways from the vertex plane; the first sign change between two
     // points where the surface exists is the hit nearest the vertex plane
     let tp = t0, fp = f0, tm = t0, fm = f0;
     for (let h = 0.25; h < 1e4; h *= 2) {
       const t1 = t0 + h;
-      const f1 = this.gAt(L, t1);
+      const f1 = this.gAt(t1);
       if (!Number.isNaN(f1)) {
         if (f1 === 0) { S.t = t1; return true; }
         if (!Number.isNaN(fp) && f1 > 0 !== fp > 0) {
           S.lo = tp; S.flo = fp; S.hi = t1;
-          return this.refineToric(L);
+          return this.refineToric();
         }
         tp = t1; fp = f1;
       }
       const t2 = t0 - h;
-      const f2 = this.gAt(L, t2);
+      const f2 = this.gAt(t2);
       if (!Number.isNaN(f2)) {
         if (f2 === 0) { S.t = t2; return true; }
         if (!Number.isNaN(fm) && f2 > 0 !== fm > 0) {
           S.lo = tm; S.flo = fm; S.hi = t2;
-          return this.refineToric(L);
+          return this.refineToric();
         }
         tm = t2; fm = f2;
       }
@@ -416,23 +461,25 @@ export class Surface {
   }
 
   /** Newton steps kept inside the bracket [S.lo, S.hi] (g(lo) = S.flo, g(hi) of the other sign). */
-  private refineToric(L: Ray): boolean {
+  private refineToric(): boolean {
+    const w = work;
+    const lpx = w[13]!, lpy = w[14]!, lpz = w[15]!, ldx = w[16]!, ldy = w[17]!, ldz = w[18]!;
     const S = _solve;
     let lo = S.lo, flo = S.flo, hi = S.hi;
     let t = 0.5 * (lo + hi);
     const g = _sag;
     for (let i = 0; i < 200; i++) {
-      g.x = L.px + t * L.dx;
-      g.y = L.py + t * L.dy;
+      g.x = lpx + t * ldx;
+      g.y = lpy + t * ldy;
       const ok = this.evalSag(g);
-      const f = ok ? L.pz + t * L.dz + g.sag : NaN;
+      const f = ok ? lpz + t * ldz + g.sag : NaN;
       if (f === 0) {
         S.t = t;
         return true;
       }
       if (!ok) hi = t; // the domain ends inside the bracket: the live end is lo's side
       else if (f > 0 === flo > 0) { lo = t; flo = f; } else hi = t;
-      const fp = ok ? L.dz + g.dx * L.dx + g.dy * L.dy : 0;
+      const fp = ok ? ldz + g.dx * ldx + g.dy * ldy : 0;
       let tn = fp !== 0 ? t - f / fp : NaN;
       const lower = lo < hi ? lo : hi, upper = lo < hi ? hi : lo;
       if (!(tn > lower && tn < upper)) tn = 0.5 * (lo + hi);
@@ -446,11 +493,12 @@ export class Surface {
   }
 }
 
-/** Scale the normal in `hit` to unit length (a conic's (κx, κy, 1 + (1+k)κz) is not). */
-function normalise(hit: Hit): void {
-  const nx = hit.nx, ny = hit.ny, nz = hit.nz;
+/** Scale the hit's normal in `work` to unit length (a conic's (κx, κy, 1 + (1+k)κz) is not). */
+function normaliseWork(): void {
+  const w = work;
+  const nx = w[10]!, ny = w[11]!, nz = w[12]!;
   const inv = 1 / Math.sqrt(nx * nx + ny * ny + nz * nz);
-  hit.nx = nx * inv; hit.ny = ny * inv; hit.nz = nz * inv;
+  w[10] = nx * inv; w[11] = ny * inv; w[12] = nz * inv;
 }
 
 /** Scratch state of the toric root search. */
@@ -461,6 +509,5 @@ class RootState {
   hi = 0.5;
 }
 
-const _local = new Ray();
 const _solve = new RootState();
 const _sag = new SagEval();

@@ -14,8 +14,9 @@
  */
 import { RayStatus } from './errors.ts';
 import type { Lens } from './lens.ts';
-import { refractVec } from './refract.ts';
-import { Hit, Ray, SagEval } from './surface.ts';
+import { work } from './rayWork.ts';
+import { refractAt } from './refract.ts';
+import { SagEval } from './surface.ts';
 
 /** Result of one trace; reuse one instance per loop. */
 export class LineTrace {
@@ -39,11 +40,13 @@ export class LineTrace {
   ox = 0; oy = 0; oz = 1;
 }
 
-const _hit = new Hit();
 const _sag = new SagEval();
-const _ray = new Ray();
-const _dir = { x: 0, y: 0, z: 0 };
-const _base = { x: 0, y: 0 };
+/**
+ * The trace's own unboxed scratch: the reverse eye-side direction a, which the
+ * prism needs at the end, and the prism's magnitude and base direction. The ray,
+ * the hits and the directions in and out of the glass pass through `work` (rayWork.ts).
+ */
+const _t = new Float64Array(6); // a: 0-2; the prism: 3; its base direction: 4, 5
 
 /**
  * Exact line of sight: the ray from the centre of rotation (crX, crY, crZ) through the point
@@ -64,19 +67,23 @@ export function traceLineOfSight(
 
 /** traceLineOfSight's work: start (out.sx..sz) and visual point (out.bx, out.by) in `out`. */
 export function lineOfSight(lens: Lens, out: LineTrace): RayStatus {
-  const h = _hit;
+  const w = work;
   const st = backPoint(lens, out);
   if (st !== RayStatus.ok) return st;
-  const cx = out.bx, cy = out.by;
-  let ax = cx - out.sx, ay = cy - out.sy, az = h.z - out.sz;
+  // slots of `work` (rayWork.ts): the back point 6-8 and its normal 10-12; then the ray 0-5
+  const cx = w[6]!, cy = w[7]!, bz = w[8]!;
+  let ax = cx - out.sx, ay = cy - out.sy, az = bz - out.sz;
   const len = Math.sqrt(ax * ax + ay * ay + az * az);
   if (!(az > 0)) return fail(out, RayStatus.geometry);
   const inv = 1 / len;
   ax *= inv; ay *= inv; az *= inv;
   out.ax = ax; out.ay = ay; out.az = az;
-  _dir.x = ax; _dir.y = ay; _dir.z = az;
-  if (!refractVec(_dir, h, lens.intoGlass)) return fail(out, RayStatus.tir);
-  out.gx = _dir.x; out.gy = _dir.y; out.gz = _dir.z;
+  const t = _t;
+  t[0] = ax; t[1] = ay; t[2] = az;
+  w[3] = ax; w[4] = ay; w[5] = az;
+  if (!refractAt(w, 3, 10, lens.intoGlass)) return fail(out, RayStatus.tir);
+  out.gx = w[3]!; out.gy = w[4]!; out.gz = w[5]!;
+  w[0] = cx; w[1] = cy; w[2] = bz;
   return throughFront(lens, out);
 }
 
@@ -93,64 +100,69 @@ export function traceFocimeter(lens: Lens, cx: number, cy: number, out: LineTrac
 
 /** traceFocimeter's work, reading the point from (out.bx, out.by). */
 export function focimeter(lens: Lens, out: LineTrace): RayStatus {
-  const h = _hit;
+  const w = work;
   const st = backPoint(lens, out);
   if (st !== RayStatus.ok) return st;
-  const cx = out.bx, cy = out.by;
-  out.ax = h.nx; out.ay = h.ny; out.az = h.nz;
-  out.gx = h.nx; out.gy = h.ny; out.gz = h.nz;
+  const cx = w[6]!, cy = w[7]!, bz = w[8]!;
+  const nx = w[10]!, ny = w[11]!, nz = w[12]!;
+  out.ax = nx; out.ay = ny; out.az = nz;
+  out.gx = nx; out.gy = ny; out.gz = nz;
   // a start point 10 mm behind along the normal, for drawing only
-  out.sx = cx - 10 * h.nx; out.sy = cy - 10 * h.ny; out.sz = h.z - 10 * h.nz;
+  out.sx = cx - 10 * nx; out.sy = cy - 10 * ny; out.sz = bz - 10 * nz;
+  const t = _t;
+  t[0] = nx; t[1] = ny; t[2] = nz;
+  w[0] = cx; w[1] = cy; w[2] = bz;
+  w[3] = nx; w[4] = ny; w[5] = nz;
   return throughFront(lens, out);
 }
 
-/** The back-surface point at (out.bx, out.by): out.bz, and its normal in _hit. */
+/** The back-surface point at (out.bx, out.by): out.bz, and the point (6-8) and its normal (10-12) in `work` (rayWork.ts). */
 function backPoint(lens: Lens, out: LineTrace): RayStatus {
   const cx = out.bx, cy = out.by;
   if (cx * cx + cy * cy > lens.radiusMm * lens.radiusMm) return fail(out, RayStatus.beyondEdge);
-  _hit.x = cx; _hit.y = cy;
-  if (!lens.back.fillPoint(_hit)) return fail(out, RayStatus.miss);
-  out.bz = _hit.z;
+  const w = work;
+  w[6] = cx; w[7] = cy;
+  if (!lens.back.fillPointWork()) return fail(out, RayStatus.miss);
+  out.bz = w[8]!;
   return RayStatus.ok;
 }
 
 /**
- * From the back-surface point (out.b*) along out.g* inside the glass, out through the front,
- * and the prism of the deviation between out.a* and the object-side direction.
- * (The tail that lineOfSight and focimeter share. It reads each LineTrace field once and keeps
- * the values in locals; the compiler inlines the surface's closed-form intersection and
- * Snell's law into it; see docs/performance.md.)
+ * From the back-surface point along the direction inside the glass (the ray in `work`, 0-5,
+ * set by lineOfSight or focimeter, with the eye-side direction a in _t), out through the front,
+ * and the prism of the deviation between a and the object-side direction.
+ * (The tail that lineOfSight and focimeter share. It reads no LineTrace field: the values pass
+ * in the unboxed scratch and in locals; the compiler inlines the surface's closed-form
+ * intersection and Snell's law into it; see docs/performance.md.)
  */
 function throughFront(lens: Lens, out: LineTrace): RayStatus {
-  const h = _hit;
-  const ray = _ray;
-  const gx = out.gx, gy = out.gy, gz = out.gz;
-  ray.px = out.bx; ray.py = out.by; ray.pz = out.bz;
-  ray.dx = gx; ray.dy = gy; ray.dz = gz;
-  if (!lens.front.intersect(ray, h)) return fail(out, RayStatus.miss);
-  if (!(h.t > 0)) return fail(out, RayStatus.geometry);
-  const fx = h.x, fy = h.y, fz = h.z;
+  const w = work;
+  if (!lens.front.intersectWork()) return fail(out, RayStatus.miss);
+  if (!(w[9]! > 0)) return fail(out, RayStatus.geometry);
+  const fx = w[6]!, fy = w[7]!, fz = w[8]!;
   const r = lens.radiusMm;
   if (fx * fx + fy * fy > r * r) return fail(out, RayStatus.beyondEdge);
   out.fx = fx; out.fy = fy; out.fz = fz;
   // the exit point must lie where the lens has thickness: the back surface behind it
+  // (findSolidRadius and solidAt use sagAt and evalSag only, which leave `work` alone)
   if (lens.solidRadiusMm < 0) lens.findSolidRadius();
   const solid = lens.solidRadiusMm;
   if (fx * fx + fy * fy >= solid * solid && !solidAt(lens, out)) return fail(out, RayStatus.geometry);
-  const d = _dir;
-  d.x = gx; d.y = gy; d.z = gz;
-  if (!refractVec(d, h, lens.outOfGlass)) return fail(out, RayStatus.tir);
-  const bx = d.x, by = d.y, bz = d.z;
+  // the direction inside the glass is still the ray's (3-5): the intersection only reads it
+  if (!refractAt(w, 3, 10, lens.outOfGlass)) return fail(out, RayStatus.tir);
+  const bx = w[3]!, by = w[4]!, bz = w[5]!;
   out.ox = bx; out.oy = by; out.oz = bz;
   // the prism of the deviation between the reverse unit directions a (eye side) and o
   // (object side): 100 tan δ towards the projection of o - a on the x-y plane
-  const ax = out.ax, ay = out.ay, az = out.az;
+  const t = _t;
+  const ax = t[0]!, ay = t[1]!, az = t[2]!;
   const cx = ay * bz - az * by, cy = az * bx - ax * bz, cz = ax * by - ay * bx;
   const sin = Math.sqrt(cx * cx + cy * cy + cz * cz);
   const cos = ax * bx + ay * by + az * bz;
   if (!(cos > 0)) return fail(out, RayStatus.geometry);
-  out.prism = (100 * sin) / cos;
-  _base.x = bx - ax; _base.y = by - ay;
+  const prism = (100 * sin) / cos;
+  out.prism = prism;
+  t[3] = prism; t[4] = bx - ax; t[5] = by - ay;
   splitPrism(out);
   out.status = RayStatus.ok;
   return RayStatus.ok;
@@ -162,11 +174,12 @@ function solidAt(lens: Lens, out: LineTrace): boolean {
   return lens.back.evalSag(_sag) && out.fz > lens.back.vertexZ - _sag.sag;
 }
 
-/** Components of out.prism along the base direction in _base. */
+/** Components of the prism magnitude _t[3] along the base direction (_t[4], _t[5]), into out. */
 function splitPrism(out: LineTrace): void {
-  const hx = _base.x, hy = _base.y;
+  const t = _t;
+  const hx = t[4]!, hy = t[5]!;
   const h = Math.sqrt(hx * hx + hy * hy);
-  const mag = out.prism;
+  const mag = t[3]!;
   if (h === 0 || mag === 0) {
     out.px = 0; out.py = 0;
   } else {
@@ -181,8 +194,10 @@ function splitPrism(out: LineTrace): void {
  */
 export function setPrismComponents(out: LineTrace, r: Float64Array): void {
   const dx = out.ox - out.ax, dy = out.oy - out.ay, dz = out.oz - out.az;
-  _base.x = r[0]! * dx + r[1]! * dy + r[2]! * dz;
-  _base.y = r[3]! * dx + r[4]! * dy + r[5]! * dz;
+  const t = _t;
+  t[3] = out.prism;
+  t[4] = r[0]! * dx + r[1]! * dy + r[2]! * dz;
+  t[5] = r[3]! * dx + r[4]! * dy + r[5]! * dz;
   splitPrism(out);
 }
 

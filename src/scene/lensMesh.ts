@@ -16,6 +16,23 @@ const RINGS = 36;
 const SEGMENTS = 120;
 const _hit = new Hit();
 
+/**
+ * Vertex k of a surface mesh at transverse (x, y): the surface's point and its normal turned
+ * `outward` (+1 or -1); where the surface does not exist there (a very steep curve), the
+ * vertex stays on the vertex plane.
+ */
+export function surfaceVertex(
+  surface: Surface, x: number, y: number, outward: number, pos: BufferAttribute, nor: BufferAttribute, k: number,
+): void {
+  if (surface.pointAt(x, y, _hit)) {
+    pos.setXYZ(k, _hit.x, _hit.y, _hit.z);
+    nor.setXYZ(k, outward * _hit.nx, outward * _hit.ny, outward * _hit.nz);
+  } else {
+    pos.setXYZ(k, x, y, surface.vertexZ);
+    nor.setXYZ(k, 0, 0, outward);
+  }
+}
+
 /** A grid of `rings` x `segments` quads (positions and normals filled later), shared by the round and edged lenses. */
 export function surfaceGeometry(rings = RINGS, segments = SEGMENTS): BufferGeometry {
   const g = new BufferGeometry();
@@ -140,14 +157,7 @@ export class LensMesh {
         const a = (2 * Math.PI * j) / SEGMENTS;
         const k = i * (SEGMENTS + 1) + j;
         const x = rr * Math.cos(a), y = rr * Math.sin(a);
-        if (surface.pointAt(x, y, _hit)) {
-          pos.setXYZ(k, _hit.x, _hit.y, _hit.z);
-          nor.setXYZ(k, outward * _hit.nx, outward * _hit.ny, outward * _hit.nz);
-        } else {
-          // the lens was validated to span its diameter; keep the vertex on the vertex plane
-          pos.setXYZ(k, x, y, surface.vertexZ);
-          nor.setXYZ(k, 0, 0, outward);
-        }
+        surfaceVertex(surface, x, y, outward, pos, nor, k);
       }
     }
     pos.needsUpdate = true;

@@ -14,9 +14,9 @@ import {
   BufferAttribute, BufferGeometry, DoubleSide, Group, LineBasicMaterial, LineLoop, Mesh,
   MeshPhysicalMaterial, MeshStandardMaterial,
 } from 'three';
-import { Hit, type Lens, type Surface } from '../../optics/index.ts';
+import { type Lens, type Surface } from '../../optics/index.ts';
 import { COLORS } from '../palette.ts';
-import { edgeGeometry, rimGeometry, surfaceGeometry } from '../lensMesh.ts';
+import { edgeGeometry, rimGeometry, surfaceGeometry, surfaceVertex } from '../lensMesh.ts';
 
 /** Points round the outline. */
 export const OUTLINE_POINTS = 160;
@@ -80,7 +80,6 @@ export function outlinePoint(o: Outline, t: number, out: Float64Array): void {
   out[0] = o.cx + x!; out[1] = o.cy + y!; out[2] = nx!; out[3] = ny!;
 }
 
-const _hit = new Hit();
 const _p = new Float64Array(4);
 
 export class EdgedLensMesh {
@@ -169,14 +168,7 @@ export class EdgedLensMesh {
         const f = Math.sin((0.5 * Math.PI * i) / RINGS);
         const x = o.cx + f * ux, y = o.cy + f * uy;
         const k = i * (OUTLINE_POINTS + 1) + j;
-        if (surface.pointAt(x, y, _hit)) {
-          pos.setXYZ(k, _hit.x, _hit.y, _hit.z);
-          nor.setXYZ(k, outward * _hit.nx, outward * _hit.ny, outward * _hit.nz);
-        } else {
-          // beyond where the surface exists (a very steep curve): keep the vertex on its vertex plane
-          pos.setXYZ(k, x, y, surface.vertexZ);
-          nor.setXYZ(k, 0, 0, outward);
-        }
+        surfaceVertex(surface, x, y, outward, pos, nor, k);
       }
     }
     pos.needsUpdate = true;

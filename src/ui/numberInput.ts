@@ -136,3 +136,12 @@ export function lensFormVisibility(m: { material: string; frontMode: string; thi
     ['ct', m.thicknessMode === 'centre'], ['minEdge', m.thicknessMode === 'rule'], ['minCt', m.thicknessMode === 'rule'],
   ];
 }
+
+/** A hint paragraph at the end of a control folder (lil-gui's children element), with the app's hint style. */
+export function folderHint(folder: { $children: HTMLElement }, text = '', extraClass = ''): HTMLParagraphElement {
+  const p = document.createElement('p');
+  p.className = extraClass ? `controls-hint ${extraClass}` : 'controls-hint';
+  p.textContent = text;
+  folder.$children.appendChild(p);
+  return p;
+}

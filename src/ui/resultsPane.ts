@@ -59,3 +59,8 @@ export class ResultsPane {
     this.body.replaceChildren(el('p', 'results-summary', 'Correct the highlighted field to see the answers.'));
   }
 }
+
+/** The status line of a refused input: what was refused, and whether the last valid result stays on screen (stale). */
+export function invalidInputText(message: string, keptLast: boolean, what: 'lens' | 'case' | 'family'): string {
+  return keptLast ? `Invalid input (${message}). Showing the last valid ${what}, stale.` : `Invalid input: ${message}.`;
+}

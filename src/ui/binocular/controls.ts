@@ -11,7 +11,7 @@
  */
 import GUI, { type Controller } from 'lil-gui';
 import { MATERIALS } from '../../optics/index.ts';
-import { enableArrowSteps, errorSlot, pointInField } from '../numberInput.ts';
+import { enableArrowSteps, errorSlot, folderHint, pointInField } from '../numberInput.ts';
 import {
   type BinocularForm, type CaseKey, type EyeKey, type FormField, SIDES, type Side, EYE_NAMES, TILT_DROP_CHOICES, fieldSpec,
   profileChoices, rangeHint,
@@ -50,17 +50,11 @@ export class BinocularControls {
     this.num(fr, 'case.b');
     this.num(fr, 'case.dbl');
     this.choice(fr, 'case.ocMode', { 'Direct: x, y from each pupil': 'direct', 'From the frame': 'frame' });
-    const hint = document.createElement('p');
-    hint.className = 'controls-hint';
-    hint.textContent = 'Each eye’s folder holds its optical-centre fields. Direct: x towards the wearer’s left (nasal for the right eye, temporal for the left), y up. From the frame: decentration inwards from the boxed centre; heights above the lower box line (blank: B/2, and the OC at the fitting height).';
-    fr.$children.appendChild(hint);
+    folderHint(fr, 'Each eye’s folder holds its optical-centre fields. Direct: x towards the wearer’s left (nasal for the right eye, temporal for the left), y up. From the frame: decentration inwards from the boxed centre; heights above the lower box line (blank: B/2, and the OC at the fitting height).');
     this.num(fr, 'case.panto');
     this.num(fr, 'case.wrap');
     this.choice(fr, 'case.tiltDrop', TILT_DROP_CHOICES);
-    const dropHint = document.createElement('p');
-    dropHint.className = 'controls-hint';
-    dropHint.textContent = 'Lowers both optical centres for the pantoscopic tilt: 1 mm per 2° of tilt (common practice), or by s·tan(tilt) so that the centre of rotation lies on the optical axis (s: back vertex to CR). Each eye’s direct OC y field holds the centre before this drop.';
-    fr.$children.appendChild(dropHint);
+    folderHint(fr, 'Lowers both optical centres for the pantoscopic tilt: 1 mm per 2° of tilt (common practice), or by s·tan(tilt) so that the centre of rotation lies on the optical axis (s: back vertex to CR). Each eye’s direct OC y field holds the centre before this drop.');
 
     const tg = this.gui.addFolder('Target');
     this.choice(tg, 'case.target', { 'Distance, straight ahead': 'distance', 'Near point': 'near', 'Reading level (on the lenses)': 'level' });
@@ -70,11 +64,8 @@ export class BinocularControls {
     this.num(tg, 'case.levelBelow');
     this.num(tg, 'case.levelInset');
     this.ctrl.get('case.levelInset')?.domElement.querySelector('input')?.setAttribute('placeholder', '0');
-    const levelHint = document.createElement('p');
-    levelHint.className = 'controls-hint';
+    const levelHint = folderHint(tg, 'A reading level is where the eyes look through the lenses, given rather than solved: each visual point lies this far below its distance mark (the centration point), and inset towards the nose.');
     levelHint.dataset.hint = 'level';
-    levelHint.textContent = 'A reading level is where the eyes look through the lenses, given rather than solved: each visual point lies this far below its distance mark (the centration point), and inset towards the nose.';
-    tg.$children.appendChild(levelHint);
     this.levelHint = levelHint;
 
     const tol = this.gui.addFolder('Tolerance');
@@ -86,10 +77,7 @@ export class BinocularControls {
     this.text(rep, 'case.recipient');
     this.text(rep, 'case.practice');
     this.text(rep, 'case.reference');
-    const repHint = document.createElement('p');
-    repHint.className = 'controls-hint';
-    repHint.textContent = 'Optional free text for the summary’s heading (Case › Clinician summary), kept in the case file. Leave out anything a shared file should not carry.';
-    rep.$children.appendChild(repHint);
+    folderHint(rep, 'Optional free text for the summary’s heading (Case › Clinician summary), kept in the case file. Leave out anything a shared file should not carry.');
     rep.close();
 
     const act = this.gui.addFolder('Case');
@@ -186,9 +174,7 @@ export class BinocularControls {
     const pr = eye.addFolder('Prescribed prism');
     pr.domElement.dataset.prism = side;
     this.readOnly(pr, f('prism360'));
-    const note = document.createElement('p');
-    note.className = 'controls-hint bi-prism360-note';
-    pr.$children.appendChild(note);
+    const note = folderHint(pr, '', 'bi-prism360-note');
     const clear = pr.add({ clear: () => this.replace360(side) }, 'clear').name('Remove the 360° prism');
     clear.domElement.setAttribute('data-action', `${side}-clear-prism360`);
     this.prism360Extras.set(side, { note, clear });

@@ -19,7 +19,7 @@ import { type BinocularForm, type FormField, docFromForm, fieldName, fieldOfPath
 import { LimitsView } from './limitsView.ts';
 import { BinocularPanel } from './panel.ts';
 import { isFailed } from './words.ts';
-import { el } from '../resultsPane.ts';
+import { el, invalidInputText } from '../resultsPane.ts';
 import { bindUndoKeys, undoButtons } from '../history.ts';
 
 export class BinocularWorkspace {
@@ -178,9 +178,7 @@ export class BinocularWorkspace {
     const message = f ? `${fieldName(f)}: ${out.reason}` : out.message;
     this.controls.showError(f, message);
     this.stale.hidden = false;
-    this.stale.textContent = this.last
-      ? `Invalid input (${message}). Showing the last valid case, stale.`
-      : `Invalid input: ${message}.`;
+    this.stale.textContent = invalidInputText(message, !!this.last, 'case');
     if (this.last) {
       this.panel.setStale(message);
       this.scene.markInvalid();

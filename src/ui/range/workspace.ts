@@ -17,7 +17,7 @@ import type { RangeJob, RangeMessage } from '../../worker/rangeProtocol.ts';
 import type { RangeExportSource, RangeExporter } from '../exports/range.ts';
 import { num } from '../format.ts';
 import { History, bindUndoKeys, undoButtons } from '../history.ts';
-import { el } from '../resultsPane.ts';
+import { el, invalidInputText } from '../resultsPane.ts';
 import { BreakdownChart, levelText } from './breakdownChart.ts';
 import { RangeControls } from './controls.ts';
 import {
@@ -236,9 +236,7 @@ export class RangeWorkspace {
     this.controls.showError(field, e.message);
     this.counters.valid = false;
     this.counters.updates++;
-    this.status.textContent = this.shown
-      ? `Invalid input (${e.message}). Showing the last valid family, stale.`
-      : `Invalid input: ${e.message}.`;
+    this.status.textContent = invalidInputText(e.message, !!this.shown, 'family');
     this.status.dataset.state = 'invalid';
     this.table.setStale(!!this.shown);
     this.chart.setStale(!!this.shown);

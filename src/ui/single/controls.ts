@@ -12,7 +12,7 @@ import type { ViewCase, ViewDisplay, ViewField } from '../../case/url.ts';
 import { MATERIALS } from '../../optics/index.ts';
 import { InputError } from '../../case/input.ts';
 import { FORM_NEAR_MM, FORM_ROTATION_DEG, type PointFocalAsk } from './pointFocal.ts';
-import { decimalPoint, enableArrowSteps, errorSlot, formatStep, pointInField, lensFormVisibility, showFieldError } from '../numberInput.ts';
+import { decimalPoint, enableArrowSteps, errorSlot, folderHint, formatStep, pointInField, lensFormVisibility, showFieldError } from '../numberInput.ts';
 
 interface NumberField {
   key: ViewField;
@@ -118,17 +118,12 @@ export class Controls {
     this.num(los, 'y');
     this.num(los, 'dir');
     this.num(los, 'dist');
-    const hint = document.createElement('p');
-    hint.className = 'controls-hint';
-    hint.textContent = 'x towards the wearer’s left, y up, seen facing the wearer. Drag the yellow point in the 3-D view, or click the map.';
-    los.$children.appendChild(hint);
+    folderHint(los, 'x towards the wearer’s left, y up, seen facing the wearer. Drag the yellow point in the 3-D view, or click the map.');
 
     const disp = this.gui.addFolder('Display');
     disp.add(this.display, 'mag', { 'none (to scale)': 1, '×2': 2, '×5': 5, '×10': 10, '×20': 20, '×50': 50, '×100': 100 })
       .name('Magnify deviations').onChange(() => this.emitDisplay());
-    this.magNote = document.createElement('p');
-    this.magNote.className = 'controls-hint';
-    disp.$children.appendChild(this.magNote);
+    this.magNote = folderHint(disp);
     disp.add(this.display, 'labels').name('Labels in 3-D view').onChange(() => this.emitDisplay());
     disp.add(this.display, 'focimeterRay').name('Show focimeter beam').onChange(() => this.emitDisplay());
     const pencil = disp.add(this.view, 'pencil').name('Show pencil, focal lines').onChange((on: boolean) => handlers.onPencil?.(on));

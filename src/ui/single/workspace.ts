@@ -15,7 +15,7 @@ import { VIEW_NAMES, type ViewName } from '../../scene/viewer.ts';
 import { num } from '../format.ts';
 import { History, bindUndoKeys, undoButtons } from '../history.ts';
 import { copyLink } from '../copyLink.ts';
-import { el } from '../resultsPane.ts';
+import { el, invalidInputText } from '../resultsPane.ts';
 import { type Computed, computeCase } from './compute.ts';
 import { Controls } from './controls.ts';
 import { CrossSection } from './crossSection.ts';
@@ -355,9 +355,7 @@ export class SingleLensWorkspace {
   private showInvalid(field: ViewField | null, message: string): void {
     this.controls.showError(field, message);
     this.stale.hidden = false;
-    this.stale.textContent = this.last
-      ? `Invalid input (${message}). Showing the last valid lens, stale.`
-      : `Invalid input: ${message}.`;
+    this.stale.textContent = invalidInputText(message, !!this.last, 'lens');
     if (this.last) {
       this.panel.setStale(message);
       this.scene.markInvalid();

@@ -5,7 +5,7 @@
  * and their file formats, used by the CLI (`decentra sweep`, `decentra limits --power`, with
  * worker threads) and by the app's export (in a Web Worker). No Node or DOM here.
  */
-import { type Lens, fourAnswers, isFailure } from '../optics/index.ts';
+import { type Lens, isFailure, prismAnswers } from '../optics/index.ts';
 import { flagOf } from './flags.ts';
 import { InputError } from './input.ts';
 import { type RawFields, buildLens, readLensForm } from './lensCase.ts';
@@ -59,7 +59,7 @@ export function sweepPowerRows(plan: BatchPlan, p: number): Row[] {
       row.note = `beyond the ${2 * lens.radiusMm} mm lens`;
       return row;
     }
-    const r = fourAnswers(lens, cr, d * ux, d * uy, eye);
+    const r = prismAnswers(lens, cr, d * ux, d * uy, eye);
     row.prentice = r.prentice.magnitude;
     row.paraxial = r.paraxial.magnitude;
     row.exact = isFailure(r.exact) ? null : r.exact.magnitude;

@@ -28,7 +28,8 @@ export interface PrenticeError {
   percent: number | null;
 }
 
-export interface FourAnswers {
+/** The four prism answers at one point (fourAnswers adds the power; tables of prism alone use these). */
+export interface PrismAnswers {
   eye: Eye;
   prentice: PrismDescription;
   paraxial: PrismDescription;
@@ -36,15 +37,19 @@ export interface FourAnswers {
   focimeter: Answer;
   focimeterFirstOrder: PrismDescription;
   error: PrenticeError | null;
+  /** the traces themselves (lens frame), for drawing */
+  exactTrace: LineTrace;
+  focimeterTrace: LineTrace;
+}
+
+/** The four prism answers with the power beside them: what the eye gets at the point. */
+export interface FourAnswers extends PrismAnswers {
   /**
    * The power the eye gets along the exact line of sight (power.ts): the pencil's vergence at
    * the vertex sphere and its errors against the prescription (and the target's demand).
    * A failure where the exact trace or the pencil fails.
    */
   power: PowerAnswer | TraceFailure;
-  /** the traces themselves (lens frame), for drawing */
-  exactTrace: LineTrace;
-  focimeterTrace: LineTrace;
 }
 
 export function isFailure(a: Answer): a is TraceFailure {
@@ -60,8 +65,16 @@ export function failureOf(status: RayStatus): TraceFailure {
  * untilted lens with the centre of rotation crDistanceMm behind the back vertex on its axis.
  */
 export function fourAnswers(lens: Lens, crDistanceMm: number, cxMm: number, cyMm: number, eye: Eye): FourAnswers {
-  const pl = new Placement({ ocXMm: 0, ocYMm: 0, crDistanceMm, pantoDeg: 0, wrapDeg: 0, eye });
-  return fourAnswersPlaced(lens, pl, cxMm, cyMm, eye);
+  return fourAnswersPlaced(lens, untilted(crDistanceMm, eye), cxMm, cyMm, eye);
+}
+
+/** fourAnswers without the power: the prism answers alone, for tables that print only prism (a sweep). */
+export function prismAnswers(lens: Lens, crDistanceMm: number, cxMm: number, cyMm: number, eye: Eye): PrismAnswers {
+  return prismAnswersPlaced(lens, untilted(crDistanceMm, eye), cxMm, cyMm, eye);
+}
+
+function untilted(crDistanceMm: number, eye: Eye): Placement {
+  return new Placement({ ocXMm: 0, ocYMm: 0, crDistanceMm, pantoDeg: 0, wrapDeg: 0, eye });
 }
 
 /**
@@ -78,6 +91,18 @@ export function fourAnswersPlaced(
   /** a near target in the eye frame (mm) for the power's demand; null or absent: distant */
   nearEye: { x: number; y: number; z: number } | null = null,
 ): FourAnswers {
+  const a = prismAnswersPlaced(lens, pl, cxMm, cyMm, eye);
+  let power: PowerAnswer | TraceFailure = failureOf(a.exactTrace.status === RayStatus.ok ? RayStatus.geometry : a.exactTrace.status);
+  if (!isFailure(a.exact)) {
+    const cylSign = lens.spec.cylD > 0 ? 'plus' : 'minus';
+    const p = powerOfLine(lens, a.exactTrace, pencilSetup(lens, pl, nearEye), cylSign);
+    power = typeof p === 'number' ? failureOf(p) : p;
+  }
+  return { ...a, power };
+}
+
+/** fourAnswersPlaced without the power. */
+export function prismAnswersPlaced(lens: Lens, pl: Placement, cxMm: number, cyMm: number, eye: Eye): PrismAnswers {
   const v = { x: 0, y: 0 };
   const described = (): PrismDescription => {
     toWearerPrism(pl, v.x, v.y, v);
@@ -98,14 +123,8 @@ export function fourAnswersPlaced(
   if (s2 === RayStatus.ok && pl.tilted) setPrismComponents(focimeterTrace, pl.r);
   const focimeter: Answer = s2 === RayStatus.ok ? describePrism(focimeterTrace.px, focimeterTrace.py, eye) : failureOf(s2);
 
-  let power: PowerAnswer | TraceFailure = failureOf(s1 === RayStatus.ok ? RayStatus.geometry : s1);
-  if (s1 === RayStatus.ok) {
-    const cylSign = lens.spec.cylD > 0 ? 'plus' : 'minus';
-    const p = powerOfLine(lens, exactTrace, pencilSetup(lens, pl, nearEye), cylSign);
-    power = typeof p === 'number' ? failureOf(p) : p;
-  }
   return {
-    eye, prentice, paraxial, exact, focimeter, focimeterFirstOrder, power,
+    eye, prentice, paraxial, exact, focimeter, focimeterFirstOrder,
     error: isFailure(exact) ? null : prenticeError(prentice.magnitude, exact.magnitude),
     exactTrace, focimeterTrace,
   };

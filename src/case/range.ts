@@ -19,7 +19,7 @@
  *   breakdownCsv / breakdownMarkdown(b, decimals), breakdownJson(b)   the breakdown as a file
  */
 import {
-  type BoundedLimit, type Eye, type Lens, type LimitEnd, type ScanLimit, boundedLimit, directionLimits, failureMessage,
+  type BoundedLimit, type Eye, type Lens, type LimitEnd, type ScanLimit, boundedLimit, combineBounds, directionLimits, failureMessage,
   largestDiameterMm, linearLimitMm, prenticeBreakdownLimits, prenticeErrorAlong, RayStatus,
 } from '../optics/index.ts';
 import { fixed } from './fitWords.ts';
@@ -399,9 +399,10 @@ function scanWhy(s: ScanLimit, tol: number, where: string): string {
 /**
  * The power columns of a row (none when the range asks for no power bound): each power
  * bound's limit and the largest decentration within all of the row's bounds, with the one
- * that ended it; `e` is the row's exact prism scan (null when there is no lens).
+ * that ended it (limits.ts combineBounds). `byPower` is null when there is no lens; `prism`
+ * is the row's exact prism scan and its tolerance, null for a lens bounded by power alone.
  */
-function powerColumns(spec: RangeSpec, byPower: BoundedLimit | null, e: ScanLimit | null): Partial<RangeRow> {
+export function powerColumns(spec: RangeSpec, byPower: BoundedLimit | null, prism: { scan: ScanLimit; tolerance: number } | null): Partial<RangeRow> {
   const b = spec.powerBounds;
   if (!b) return {};
   const limitOf = (name: 'mean-error' | 'astigmatism'): number | null => byPower?.each.find((x) => x.bound === name)?.limit.mm ?? null;
@@ -409,14 +410,10 @@ function powerColumns(spec: RangeSpec, byPower: BoundedLimit | null, e: ScanLimi
     maxMeanError: b.maxMeanError ?? null, maxAstigmatism: b.maxAstigmatism ?? null,
     meanErrorLimit: limitOf('mean-error'), astigmatismLimit: limitOf('astigmatism'),
   };
-  if (!byPower || !e) return { ...cols, bounded: null, boundedBy: 'lens' };
-  const prismMm = e.end === 'prism' ? e.mm : null;
-  const candidates: [string, number | null][] = [['prism', prismMm], [byPower.endedBy ?? '', byPower.mm]];
-  let best: [string, number] | null = null;
-  for (const [name, mm] of candidates) if (mm !== null && (!best || mm < best[1])) best = [name, mm];
-  if (best) return { ...cols, bounded: best[1], boundedBy: best[0] };
-  // no bound reached: the scan that stopped first says why
-  return { ...cols, bounded: null, boundedBy: e.searchedToMm <= byPower.searchedToMm ? e.end : byPower.end };
+  if (!byPower) return { ...cols, bounded: null, boundedBy: 'lens' };
+  const all = prism ? [{ bound: 'prism' as const, tolerance: prism.tolerance, limit: prism.scan }, ...byPower.each] : byPower.each;
+  const c = combineBounds(all);
+  return { ...cols, bounded: c.mm, boundedBy: c.endedBy ?? c.end };
 }
 
 /** The rows of one lens (all directions and tolerances). */
@@ -462,7 +459,7 @@ export function lensRows(spec: RangeSpec, rl: RangeLens): RangeRow[] {
         sphere: key.sphere, cyl: key.cyl, axis: key.axis, direction: dir.label, dirDeg: dir.deg, maxPrism: tol,
         exact: e.mm, firstOrder, prentice, focimeter: f.mm, limitedBy: e.end,
         front, ct: lens.ctMm, edge, diameter, maxDiameter: null, reason: why.length ? why.join('; ') : 'ok',
-        ...powerColumns(spec, byPower, e),
+        ...powerColumns(spec, byPower, { scan: e, tolerance: tol }),
       });
     });
   }

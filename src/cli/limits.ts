@@ -5,7 +5,7 @@
 import { InputError, inRange, readNumber } from '../case/input.ts';
 import { LIMITS, buildLens, readLensForm } from '../case/lensCase.ts';
 import {
-  type RangeInput, type RangeRow, type RangeSpec, breakdown, breakdownCsv, breakdownJson, breakdownMarkdown, lensRows, readLevels, rangeCsv, rangeJson, rangeLens, rangeMarkdown, rangeRows, readRangeSpec,
+  type RangeInput, type RangeRow, type RangeSpec, breakdown, breakdownCsv, breakdownJson, breakdownMarkdown, lensRows, powerColumns, readLevels, rangeCsv, rangeJson, rangeLens, rangeMarkdown, rangeRows, readRangeSpec,
 } from '../case/range.ts';
 import { type Lens, boundedLimit, directionLimits } from '../optics/index.ts';
 import { LENS_FLAGS, type ParsedArgs, flagOf, parseArgs, rawFields } from './args.ts';
@@ -144,12 +144,7 @@ function powerOnlyLens(args: ParsedArgs): string {
   const dir = spec.directions[0]!;
   const rl = rangeLens(spec, { sphere: form.sphereD, cyl: form.cylD, axis: form.axisDeg });
   if (!rl.lens) buildLens(form, flagOf); // the engine's refusal, naming the value
-  const b = boundedLimit(rl.lens!, spec.crMm, dir.deg, spec.powerBounds!);
-  const limitOf = (name: string) => b.each.find((e) => e.bound === name)?.limit.mm ?? null;
-  const row = {
-    maxMeanError: spec.powerBounds!.maxMeanError ?? null, maxAstigmatism: spec.powerBounds!.maxAstigmatism ?? null,
-    meanErrorLimit: limitOf('mean-error'), astigmatismLimit: limitOf('astigmatism'), bounded: b.mm, boundedBy: b.endedBy ?? b.end,
-  } as RangeRow;
+  const row = powerColumns(spec, boundedLimit(rl.lens!, spec.crMm, dir.deg, spec.powerBounds!), null) as RangeRow;
   if (args.switches.has('json')) return JSON.stringify({ direction: dir.deg, power: powerJsonOf(row) });
   const named = dir.label.endsWith('°') ? `${dir.label}` : `${dir.label} (${dir.deg}°)`;
   return [

@@ -272,12 +272,19 @@ export function boundedLimit(lens: Lens, crMm: number, directionDeg: number, bou
     each.push({ bound, tolerance: tol, limit: scan(lens, crMm, ux, uy, q, 0, [tol])[0]! });
   }
   if (each.length === 0) throw new OpticsError('give at least one bound: prism, mean error or astigmatism', 'bounds');
+  return combineBounds(each);
+}
+
+/**
+ * Several bounds' own limits along one direction as one answer: the smallest limit wins and
+ * is named; where no bound is reached, the scan that stopped first says why.
+ */
+export function combineBounds(each: BoundedLimit['each']): BoundedLimit {
   let best: BoundedLimit['each'][number] | null = null;
   for (const e of each) if (e.limit.end === 'prism' && (!best || e.limit.mm! < best.limit.mm!)) best = e;
-  // without a reached bound, the scan that stopped first says why
+  if (best) return { mm: best.limit.mm, endedBy: best.bound, end: 'prism', searchedToMm: best.limit.searchedToMm, each };
   let first = each[0]!;
   for (const e of each) if (e.limit.searchedToMm < first.limit.searchedToMm) first = e;
-  if (best) return { mm: best.limit.mm, endedBy: best.bound, end: 'prism', searchedToMm: best.limit.searchedToMm, each };
   return { mm: null, endedBy: null, end: first.limit.end, searchedToMm: first.limit.searchedToMm, each };
 }
 

@@ -5,8 +5,8 @@
 // start while they run. One allocated number per trace would be 32 MB over such a loop, many
 // times V8's young generation, so an allocation cannot hide. If this environment cannot
 // observe collections at all, the test fails and says so: it never passes unobserved.
-import { PerformanceObserver, constants } from 'node:perf_hooks';
-import { afterAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
+import { settle, watchMinorGc } from './gcWatch.ts';
 import {
   LineTrace, Placement, RayStatus, focimeter, frontForPower, lineOfSight, makeLens, placedLine,
 } from '../../src/optics/index.ts';
@@ -21,19 +21,7 @@ const WARMUP_CALLS = 40;
 const WARMUP_TRACES = 50_000;
 const POINTS = 4096; // a power of two, for the index mask
 
-// minor collections, by start time on the performance clock
-const minor: number[] = [];
-let entries = 0;
-const observer = new PerformanceObserver((list) => {
-  for (const e of list.getEntries()) {
-    entries++;
-    if ((e as unknown as { detail?: { kind?: number } }).detail?.kind === constants.NODE_PERFORMANCE_GC_MINOR) minor.push(e.startTime);
-  }
-});
-observer.observe({ entryTypes: ['gc'] });
-afterAll(() => observer.disconnect());
-
-const settle = (ms: number) => new Promise((r) => setTimeout(r, ms));
+const { minor, entries, makeGarbage } = watchMinorGc();
 
 // the lenses: invented forms, not anyone's prescription. A front toric runs the toric
 // intersection (Newton) on a line of sight; a back toric and a sphere the closed forms.
@@ -92,16 +80,10 @@ const loops: [string, (n: number) => number][] = [
 
 describe('the per-ray path allocates nothing', () => {
   it('this environment reports minor garbage collections (else the check below could not fail)', async () => {
-    // make garbage until the young generation fills: a few minor collections must follow
-    const before = minor.length;
-    const held: unknown[] = [];
-    for (let round = 0; round < 20 && minor.length === before; round++) {
-      for (let i = 0; i < 200_000; i++) held[i & 1023] = [i, { i }];
-      await settle(20);
-    }
+    const { before, held } = await makeGarbage();
     expect(held.length).toBe(1024);
     if (minor.length === before) {
-      throw new Error(`no minor garbage collection was reported (perf_hooks 'gc' entries seen: ${entries}); this environment cannot observe allocation, so the allocation check cannot run`);
+      throw new Error(`no minor garbage collection was reported (perf_hooks 'gc' entries seen: ${entries()}); this environment cannot observe allocation, so the allocation check cannot run`);
     }
   }, 30_000);
 

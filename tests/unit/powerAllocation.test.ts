@@ -4,23 +4,13 @@
 // garbage-collection observer (node:perf_hooks 'gc' entries) and not one minor collection may
 // start while they run. If this environment cannot observe collections at all, the test fails
 // and says so. The lenses are invented scenarios.
-import { PerformanceObserver, constants } from 'node:perf_hooks';
-import { afterAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
+import { settle, watchMinorGc } from './gcWatch.ts';
 import {
   Placement, RayStatus, allocatePowerMap, fillPowerMap, frontForPower, makeLens, pencilSetup,
 } from '../../src/optics/index.ts';
 
-const minor: number[] = [];
-let entries = 0;
-const observer = new PerformanceObserver((list) => {
-  for (const e of list.getEntries()) {
-    entries++;
-    if ((e as unknown as { detail?: { kind?: number } }).detail?.kind === constants.NODE_PERFORMANCE_GC_MINOR) minor.push(e.startTime);
-  }
-});
-observer.observe({ entryTypes: ['gc'] });
-afterAll(() => observer.disconnect());
-const settle = (ms: number) => new Promise((r) => setTimeout(r, ms));
+const { minor, entries, makeGarbage } = watchMinorGc();
 
 const vogel = { kind: 'vogel' } as const;
 const spherical = makeLens({ sphereD: -4, cylD: 0, axisDeg: 0, index: 1.6, frontD: frontForPower(vogel, -4), ctMm: 2, diameterMm: 65 });
@@ -39,15 +29,10 @@ const cases: [string, typeof spherical, Placement][] = [
 
 describe('the power map loop allocates nothing', () => {
   it('this environment reports minor garbage collections (else the check below could not fail)', async () => {
-    const before = minor.length;
-    const held: unknown[] = [];
-    for (let round = 0; round < 20 && minor.length === before; round++) {
-      for (let i = 0; i < 200_000; i++) held[i & 1023] = [i, { i }];
-      await settle(20);
-    }
+    const { before, held } = await makeGarbage();
     expect(held.length).toBe(1024);
     if (minor.length === before) {
-      throw new Error(`no minor garbage collection was reported (perf_hooks 'gc' entries seen: ${entries}); this environment cannot observe allocation`);
+      throw new Error(`no minor garbage collection was reported (perf_hooks 'gc' entries seen: ${entries()}); this environment cannot observe allocation`);
     }
   }, 30_000);
 

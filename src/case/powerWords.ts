@@ -6,7 +6,8 @@
 import type { PowerAnswer } from '../optics/index.ts';
 
 /** A power, or why there is none (the engine's and the library's shapes alike). */
-type PowerOr = PowerAnswer | { failure: string; message: string };
+type PowerValues = Omit<PowerAnswer, 'geometry'>;
+type PowerOr = PowerValues | { failure: string; message: string };
 type TraceFailure = { failure: string; message: string };
 import { fixed } from './numberText.ts';
 
@@ -38,7 +39,7 @@ function dioptres(v: number, decimals = 2): string {
 }
 
 /** The vergence as a sphero-cylinder, e.g. "+3.79 / -0.12 x 90", or "+3.79 DS" when the cylinder rounds to 0. */
-export function spheroCylText(p: PowerAnswer, decimals = 2): string {
+export function spheroCylText(p: PowerValues, decimals = 2): string {
   const cyl = fixed(p.cyl, decimals);
   const sphere = dioptres(p.sphere, decimals).slice(0, -2);
   if (cyl === fixed(0, decimals)) return `${sphere} DS`;

@@ -321,6 +321,18 @@ export interface PowerAnswer {
   /** Coddington's tangential and sagittal vergences, D, where they apply (else absent) */
   tangential?: number;
   sagittal?: number;
+  /** where the pencil is, for drawing (lens frame, mm): V, the light's unit direction there, the focal lines */
+  geometry: PencilGeometry;
+}
+
+/** The pencil's place for drawing, lens frame, mm. */
+export interface PencilGeometry {
+  /** V, where the line of sight crosses the vertex sphere */
+  v: readonly [number, number, number];
+  /** the light's direction at V (towards the eye), unit */
+  d: readonly [number, number, number];
+  /** the two focal lines (focalLines) */
+  lines: readonly [FocalLine, FocalLine];
 }
 
 /**
@@ -368,6 +380,7 @@ export function powerOfLine(lens: Lens, chief: LineTrace, setup: PencilSetup, cy
     matrix: [[p.vXX, p.vXY], [p.vXY, p.vYY]],
     sphere: sc.sphereD, cyl: sc.cylD, axis: sc.axisDeg,
     meanError: p.meanError, astigmaticError: p.astigmaticError, demand: p.demand,
+    geometry: { v: [p.vx, p.vy, p.vz], d: [p.dx, p.dy, p.dz], lines: focalLines(p) },
   };
   const m = new MeridionalPower();
   if (coddington(lens, chief, setup, p, m)) {
@@ -377,9 +390,13 @@ export function powerOfLine(lens: Lens, chief: LineTrace, setup: PencilSetup, cy
   return ans;
 }
 
+/** Below this vergence, D, a focal line is at infinity (10^12 mm away and more; 1000 / a denormal vergence would overflow). */
+export const FOCAL_LINE_MIN_VERGENCE_D = 1e-9;
+
 /** One focal line of an astigmatic pencil, for drawing. */
 export interface FocalLine {
-  /** from V along the light's direction (towards the eye), mm; negative: a virtual line before V; null: at infinity (zero vergence) */
+  /** from V along the light's direction (towards the eye), mm; negative: a virtual line before V;
+   *  null: at infinity (a vergence under FOCAL_LINE_MIN_VERGENCE_D) */
   distanceMm: number | null;
   /** principal vergence whose rays meet there, D */
   vergenceD: number;
@@ -402,7 +419,7 @@ export function focalLines(p: PencilPower): [FocalLine, FocalLine] {
     x: u * p.e1x + v * p.e2x, y: u * p.e1y + v * p.e2y, z: u * p.e1z + v * p.e2z,
   });
   const line = (vergence: number, along: { x: number; y: number; z: number }): FocalLine => ({
-    distanceMm: vergence === 0 ? null : 1000 / vergence, vergenceD: vergence, ...along,
+    distanceMm: Math.abs(vergence) < FOCAL_LINE_MIN_VERGENCE_D ? null : 1000 / vergence, vergenceD: vergence, ...along,
   });
   // the section along (c, s) has vergence mean + half; its rays meet in a line along (-s, c)
   return [line(mean + half, dir(-s, c)), line(mean - half, dir(c, s))];

@@ -15,20 +15,13 @@
 import { BufferAttribute, BufferGeometry, CylinderGeometry, Group, LineBasicMaterial, LineDashedMaterial, LineSegments } from 'three';
 import type { CSS2DObject } from 'three/examples/jsm/renderers/CSS2DRenderer.js';
 import { fixed } from '../case/numberText.ts';
-import type { FocalLine } from '../optics/index.ts';
+import type { PencilGeometry } from '../optics/index.ts';
 import { makeLabel } from './markers.ts';
 import { COLORS } from './palette.ts';
 import { RayTube } from './rayTube.ts';
 
 /** The pencil as the engine gives it (lens frame, mm). */
-export interface PencilGeometry {
-  /** V, where the line of sight crosses the vertex sphere */
-  v: readonly [number, number, number];
-  /** the light's direction at V (towards the eye), unit */
-  d: readonly [number, number, number];
-  /** the two focal lines (focalLines in power.ts) */
-  lines: readonly [FocalLine, FocalLine];
-}
+export type { PencilGeometry };
 
 export const PENCIL_HALF_WIDTH_MM = 2;
 /** focal lines farther than this from V are left out of the drawing, mm */

@@ -8,8 +8,7 @@ import { InputError } from '../../case/input.ts';
 import type { PencilGeometry } from '../../scene/pencil.ts';
 import { type ViewCase, type ViewField, toRawFields } from '../../case/url.ts';
 import {
-  type FourAnswers, type Lens, type PrismProfile, type SpheroCyl, PencilPower, Placement, RayStatus,
-  findMaterial, focalLines, fourAnswers, pencilPower, pencilSetup, prismProfile, toSpheroCyl,
+  type FourAnswers, type Lens, type PrismProfile, type SpheroCyl, findMaterial, fourAnswers, prismProfile, toSpheroCyl,
 } from '../../optics/index.ts';
 
 /** How each field is named in messages (and on screen). */
@@ -60,15 +59,6 @@ export interface Computed {
 /** The pencil at the vertex sphere as the scene draws it (lens frame, mm). */
 export type PencilDrawing = PencilGeometry;
 
-/** The pencil of the exact line of sight (distant target), as the answers' power has it, with its focal lines. */
-function pencilOf(lens: Lens, a: FourAnswers, crMm: number, eye: 'R' | 'L'): PencilDrawing | null {
-  if ('failure' in a.power) return null;
-  const pl = new Placement({ ocXMm: 0, ocYMm: 0, crDistanceMm: crMm, pantoDeg: 0, wrapDeg: 0, eye });
-  const p = new PencilPower();
-  if (pencilPower(lens, a.exactTrace, pencilSetup(lens, pl, null), p) !== RayStatus.ok) return null;
-  return { v: [p.vx, p.vy, p.vz], d: [p.dx, p.dy, p.dz], lines: focalLines(p) };
-}
-
 export type ComputeOutcome =
   | { ok: true; result: Computed }
   | { ok: false; field: ViewField | null; message: string };
@@ -114,7 +104,7 @@ export function computeCase(c: ViewCase, fallbackDirectionDeg = 0): ComputeOutco
       abbe: tc.lens.abbe ?? null,
       materialName: mat ? mat.name : `custom material, n = ${fmt(lens.index, 3)}`,
       warnings,
-      pencil: pencilOf(lens, answers, tc.crMm, tc.eye),
+      pencil: 'failure' in answers.power ? null : answers.power.geometry,
     },
   };
 }

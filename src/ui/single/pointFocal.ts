@@ -2,16 +2,15 @@
  * The lens folder's point-focal control: for the case on screen (its power, material,
  * thickness rule and centre-of-rotation distance), the true front power at which the pencil
  * reaching the eye turned by a chosen rotation has no astigmatic error, for a distant target
- * or a near one (the engine's formFronts, docs/method.md "Best forms"), as the case edit that
- * applies it. Nothing optical is computed here: the engine finds the roots; this module reads
- * the case and, where the thickness follows a rule (minimum edge), repeats the search with the
- * centre thickness the new front gives until the two agree.
+ * or a near one (src/case/bestForm.ts over the engine's formFronts, docs/method.md "Best
+ * forms"), as the case edit that applies it. Nothing optical is computed here.
  */
 import { InputError, inRange, readNumber } from '../../case/input.ts';
 import { DEFAULTS, LIMITS, readTraceCase } from '../../case/lensCase.ts';
 import { fixed } from '../../case/numberText.ts';
 import { type ViewCase, toRawFields } from '../../case/url.ts';
-import { OpticsError, formFronts } from '../../optics/index.ts';
+import { OpticsError } from '../../optics/index.ts';
+import { bestFronts } from '../../case/bestForm.ts';
 import { FIELD_LABELS, POLAR_LABELS } from './compute.ts';
 import type { FieldKey } from '../../case/lensCase.ts';
 
@@ -44,9 +43,9 @@ export function pointFocalEdit(c: ViewCase, ask: PointFocalAsk): PointFocalOutco
     if (e instanceof InputError) return { ok: false, field: e.field === 'eye rotation' ? 'rotation' : 'near', message: e.message };
     throw e;
   }
-  let tc, lens;
+  let tc;
   try {
-    ({ tc, lens } = readTraceCase(toRawFields(c, POLAR_LABELS), label));
+    ({ tc } = readTraceCase(toRawFields(c, POLAR_LABELS), label));
   } catch (e) {
     if (e instanceof InputError || e instanceof OpticsError) return { ok: false, field: null, message: `the case on screen is not a valid lens (${e.message})` };
     throw e;
@@ -56,35 +55,23 @@ export function pointFocalEdit(c: ViewCase, ask: PointFocalAsk): PointFocalOutco
   if (L.frontConic !== 0 || L.backConic !== 0) return { ok: false, field: null, message: 'point-focal forms are found here for spherical surfaces; set both conics to 0 first' };
   const where = nearMm === null ? 'a distant target' : `a target ${fixed(nearMm, 0)} mm away`;
   const rot = `${fixed(rotationDeg, 0)}°`;
-  // the centre thickness follows the front where a rule sets it: search, rebuild, search again
-  let ctMm = lens.ctMm, frontD = NaN, roots: number[] = [];
-  let next: ViewCase = c;
-  for (let i = 0; i < 6; i++) {
-    try {
-      roots = formFronts({ sphereD: L.sphereD, index: lens.index, ctMm, crMm: tc.crMm, rotationDeg, nearMm, goal: 'astigmatism' });
-    } catch (e) {
-      if (e instanceof OpticsError) return { ok: false, field: 'rotation', message: e.message };
-      throw e;
+  // the centre thickness follows the front where a rule sets it (bestFronts)
+  let roots: number[], ctMm: number;
+  try {
+    ({ fronts: roots, ctMm } = bestFronts(L, label, { crMm: tc.crMm, rotationDeg, nearMm, goal: 'astigmatism' }));
+  } catch (e) {
+    if (e instanceof OpticsError) return { ok: false, field: 'rotation', message: e.message };
+    if (e instanceof InputError) {
+      return { ok: false, field: null, message: `the point-focal front cannot be made with this lens's thickness and diameter: ${e.message}` };
     }
-    const r = roots.find((v) => Number.isFinite(v));
-    if (r === undefined) {
-      return { ok: false, field: null, message: `no front curve from 0 to +25 D makes this lens free of astigmatic error at ${rot} for ${where}; the front is unchanged` };
-    }
-    frontD = r;
-    next = { ...c, frontMode: 'true', front: fixed(frontD, 2) };
-    let ct2: number;
-    try {
-      ct2 = readTraceCase(toRawFields(next, POLAR_LABELS), label).lens.ctMm;
-    } catch (e) {
-      if (e instanceof InputError || e instanceof OpticsError) {
-        return { ok: false, field: null, message: `the point-focal front (${fixed(frontD, 2)} D) cannot be made with this lens's thickness and diameter: ${e.message}` };
-      }
-      throw e;
-    }
-    if (Math.abs(ct2 - ctMm) < 0.005) break;
-    ctMm = ct2;
+    throw e;
   }
-  const steeper = roots.filter((v) => Number.isFinite(v) && v > frontD + 0.01);
+  const frontD = roots[0];
+  if (frontD === undefined) {
+    return { ok: false, field: null, message: `no front curve from 0 to +25 D makes this lens free of astigmatic error at ${rot} for ${where}; the front is unchanged` };
+  }
+  const next: ViewCase = { ...c, frontMode: 'true', front: fixed(frontD, 2) };
+  const steeper = roots.filter((v) => v > frontD + 0.01);
   const other = steeper.length ? ` (a steeper form also exists, ${fixed(steeper[0]!, 2)} D)` : '';
   return {
     ok: true, case: next, frontD,
